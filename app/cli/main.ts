@@ -6,6 +6,9 @@ import { Command, CommanderError } from 'commander';
 import { QuantityError } from '../common/quantity';
 import { processIo, type CliIo } from './cli-io';
 import { EXIT, InputError, NothingFoundError, UsageError } from './exit-codes';
+import { registerIndex } from './commands/index-rings';
+import { registerPhases } from './commands/phases';
+import { registerRings } from './commands/rings';
 import { registerWavelength } from './commands/wavelength';
 
 const EXIT_CODE_HELP = `
@@ -32,6 +35,9 @@ function buildProgram(io: CliIo): Command {
       outputError: (s, write) => write(`annula: ${s.replace(/^error: /, '')}`),
     });
   registerWavelength(program, io);
+  registerPhases(program, io);
+  registerRings(program, io);
+  registerIndex(program, io);
   for (const sub of program.commands) {
     sub.exitOverride().showHelpAfterError(`(run annula ${sub.name()} --help for usage)`);
     sub.configureOutput(program.configureOutput());

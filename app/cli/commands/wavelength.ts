@@ -3,6 +3,7 @@ import { electronBeam } from '../../../core/physics';
 import { parseQuantity } from '../../common/quantity';
 import { printJson, type CliIo } from '../cli-io';
 import { formatTable } from '../terminal-table';
+import { kilovolts } from '../number-format';
 
 interface WavelengthOptions {
   voltage: string;
@@ -23,7 +24,7 @@ export function registerWavelength(program: Command, io: CliIo): void {
         printJson(io, beam);
         return;
       }
-      io.out(`Electron beam at ${(beam.voltageV / 1e3).toPrecision(6).replace(/\.?0+$/, '')} kV (CODATA 2018 constants)`);
+      io.out(`Electron beam at ${kilovolts(beam.voltageV)} kV (CODATA 2018 constants)`);
       io.out(
         formatTable(
           ['quantity', 'value', 'unit'],
