@@ -92,7 +92,7 @@ export function parseQuantity(text: string, dimension: Dimension, label: string)
  */
 export function parseLengthWithDefault(text: string, defaultUnit: 'angstrom' | 'm', label: string): number {
   const t = text.trim();
-  if (/^[+]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(t)) {
+  if (/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(t)) {
     const v = Number(t);
     if (!(v > 0)) throw new QuantityError(label, text, `"${text}" must be positive`);
     return defaultUnit === 'angstrom' ? v * 1e-10 : v;

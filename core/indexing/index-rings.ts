@@ -34,6 +34,7 @@ import { cellVolumeA3, type UnitCell } from '../crystal/unit-cell';
 import { findAmbiguities, type Ambiguity, type AmbiguityInput } from './ambiguity';
 import { cubicAmbiguityInput, indexCubic, type CubicCandidate, type CubicIndexingOptions } from './cubic-indexing';
 import { validateMeasuredRings, type MeasuredRing } from './measured-ring';
+import { duplicateRingNotes, judgeIndexing, type IndexingConclusion } from './indexing-conclusion';
 import { integerOption } from './option-checks';
 import {
   matchPhases,
@@ -102,6 +103,8 @@ export interface RingIndexing {
   ambiguities: Ambiguity[];
   /** Rings the best phase leaves unexplained, with phases that could explain each (empty without phases). */
   secondPhase: SecondPhaseRing[];
+  /** Whether the best candidate is an answer at all (indexing-conclusion.ts). */
+  conclusion: IndexingConclusion;
   notes: string[];
 }
 
@@ -221,6 +224,7 @@ export function indexRings(rings: readonly MeasuredRing[], options: IndexRingsOp
     candidates: kept.map((e) => e.candidate),
     ambiguities,
     secondPhase: phaseResult?.secondPhase ?? [],
-    notes: [...cubic.notes, ...(phaseResult?.notes ?? [])],
+    conclusion: judgeIndexing(rings, kept[0]?.candidate.explainedCount ?? null),
+    notes: [...duplicateRingNotes(rings), ...cubic.notes, ...(phaseResult?.notes ?? [])],
   };
 }

@@ -9,3 +9,4 @@ export * from './ambiguity';
 export * from './cubic-indexing';
 export * from './phase-matching';
 export * from './index-rings';
+export * from './indexing-conclusion';

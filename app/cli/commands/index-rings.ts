@@ -83,8 +83,8 @@ export function registerIndex(program: Command, io: CliIo): void {
       } else {
         printReadable(io, rings, output);
       }
-      if (result.candidates.length === 0) {
-        throw new NothingFoundError('no cubic lattice or phase explains these rings; check the d-spacings and their uncertainty (--sigma)');
+      if (!result.conclusion.conclusive) {
+        throw new NothingFoundError(`no convincing answer: ${result.conclusion.reason}`);
       }
     });
 }
@@ -108,7 +108,7 @@ function printReadable(io: CliIo, rings: MeasuredRing[], result: ReturnType<type
     ),
   );
   if (best) {
-    io.out(`\nBest: ${best.label}`);
+    io.out(`\n${result.conclusion.conclusive ? 'Best' : 'Best of weak candidates (not an answer)'}: ${best.label}`);
     io.out(
       formatTable(
         ['d obs (Å)', 'hkl', 'd calc (Å)', 'residual/sigma'],

@@ -1,5 +1,6 @@
 import type { Command } from 'commander';
 import { formatHkl, predictRings } from '../../../core/crystal';
+import { UsageError } from '../exit-codes';
 import { reciprocalScalePerNmPerPx, ringRadiusPx } from '../../../core/physics';
 import { parseLengthWithDefault } from '../../common/quantity';
 import { addCameraOptions, readCameraFlags, type CameraFlags } from '../camera-options';
@@ -7,6 +8,9 @@ import { printJson, type CliIo } from '../cli-io';
 import { collectPhases, resolvePhaseArgument } from '../phase-sources';
 import { fixed, kilovolts } from '../number-format';
 import { formatTable } from '../terminal-table';
+
+/** Smallest d with tabulated scattering factors: s = 1/(2d) <= 2 1/Å. */
+const MIN_D_A = 0.25;
 
 interface RingsOptions extends CameraFlags {
   dMin: string;
@@ -37,6 +41,9 @@ export function registerRings(program: Command, io: CliIo): void {
     .action((phaseArg: string, opts: RingsOptions) => {
       const camera = readCameraFlags(opts, false);
       const dMinA = parseLengthWithDefault(opts.dMin, 'angstrom', '--d-min') / 1e-10;
+      if (dMinA < MIN_D_A) {
+        throw new UsageError(`--d-min: ${opts.dMin} is below ${MIN_D_A} Å, where the electron scattering factors (tabulated to sin(theta)/lambda = 2 1/Å) end; give --d-min ${MIN_D_A} or more`);
+      }
       const notes: string[] = [];
       const extra = opts.phases ? collectPhases(opts.phases, notes).filter((p) => p.origin !== 'library') : [];
       const phase = resolvePhaseArgument(phaseArg, extra);

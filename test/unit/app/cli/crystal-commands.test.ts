@@ -67,6 +67,12 @@ describe('annula rings', () => {
     const both = await runCli('rings', 'Au', '--voltage', '200kV', '--camera-length', '1m', '--pixel-size', '14um', '--scale', '0.01/nm');
     expect(both.code).toBe(2);
   });
+
+  it('exits 2 for a --d-min below the range of the scattering factors', async () => {
+    const r = await runCli('rings', 'Au', '--voltage', '200kV', '--d-min', '0.1');
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/--d-min: 0.1 is below 0.25 Å/);
+  });
 });
 
 describe('annula index', () => {
@@ -104,6 +110,19 @@ describe('annula index', () => {
     expect(r.stdout).toMatch(/Caution: .*lab's own procedures/);
   });
 
+  it('exits 4 with "no convincing answer" for d-spacings no lattice explains, still printing the weak candidates', async () => {
+    const r = await runCli('index', '--d', '3.0,2.9,2.8,2.7,2.6,2.5,2.4', '--sigma', '0.01%', '--json');
+    expect(r.code).toBe(4);
+    expect(r.stderr).toMatch(/no convincing answer/);
+    const out = JSON.parse(r.stdout);
+    expect(out.conclusion.conclusive).toBe(false);
+  });
+
+  it('notes rings entered twice', async () => {
+    const r = await runCli('index', '--d', '2.355,2.355,2.039,1.442,1.230', '--json');
+    expect(JSON.parse(r.stdout).notes.join(' ')).toMatch(/rings 1 and 2 .* entered twice/);
+  });
+
   it('exits 2 for malformed lists, naming the flag', async () => {
     const one = await runCli('index', '--d', '2.355');
     expect(one.code).toBe(2);
@@ -114,6 +133,9 @@ describe('annula index', () => {
     const count = await runCli('index', '--d', AU_D, '--intensity', '1,2');
     expect(count.code).toBe(2);
     expect(count.stderr).toMatch(/one intensity per ring/);
+    const negative = await runCli('index', '--d', '-1,2');
+    expect(negative.code).toBe(2);
+    expect(negative.stderr).toMatch(/--d \(value 1\): "-1" must be positive/);
     const sigma = await runCli('index', '--d', AU_D, '--sigma', '0.3');
     expect(sigma.code).toBe(0); // a plain number is read as Å, as --d is
   });
