@@ -10,7 +10,7 @@ import { bench, describe } from 'vitest';
 import { predictRings } from '../../core/crystal';
 import { phaseLibrary } from '../../core/crystal/phase-library';
 import { indexRings, type MeasuredRing } from '../../core/indexing';
-import { gaussian, mulberry32 } from '../unit/core/indexing/seeded-random';
+import { gaussian, mulberry32 } from '../support/seeded-random';
 
 const rand = mulberry32(20261230);
 const noisy = (d: number): MeasuredRing => {

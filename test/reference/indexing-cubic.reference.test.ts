@@ -19,7 +19,7 @@ import {
   isReflectionAllowed,
   type CubicStructure,
 } from '../../core/indexing';
-import { gaussian, mulberry32 } from '../unit/core/indexing/seeded-random';
+import { gaussian, mulberry32 } from '../support/seeded-random';
 import { referenceAvailable, runPythonJson } from './python-reference';
 
 // International Tables Vol. A reflection conditions, written out as N = h^2 + k^2 + l^2 sequences.

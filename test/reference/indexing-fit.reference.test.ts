@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { fitProportionalQ } from '../../core/indexing';
-import { gaussian, mulberry32 } from '../unit/core/indexing/seeded-random';
+import { gaussian, mulberry32 } from '../support/seeded-random';
 import { referenceAvailable, runPythonJson } from './python-reference';
 
 describe.runIf(referenceAvailable('scipy'))('fitProportionalQ against scipy.optimize.curve_fit', () => {

@@ -16,7 +16,7 @@ import { describe, expect, it } from 'vitest';
 import { findSpaceGroup, type Phase } from '../../core/crystal';
 import { phaseLibrary } from '../../core/crystal/phase-library';
 import { indexRings, matchPhases, type MeasuredRing } from '../../core/indexing';
-import { gaussian, mulberry32 } from '../unit/core/indexing/seeded-random';
+import { gaussian, mulberry32 } from '../support/seeded-random';
 
 const FCC = [3, 4, 8, 11, 12, 16, 19, 20];
 const DIAMOND = [3, 8, 11, 16, 19, 24, 27, 32];

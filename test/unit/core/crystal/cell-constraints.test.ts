@@ -14,22 +14,12 @@ import {
   parseSymmetryOperation,
   type SpaceGroupSetting,
 } from '../../../../core/crystal';
+import { mulberry32 } from '../../../support/seeded-random';
 
 const ops = (s: SpaceGroupSetting) => s.operations.map(parseSymmetryOperation);
 const setting = (symbol: string): SpaceGroupSetting => findSpaceGroup(symbol)!;
 const rule = (symbol: string) => cellRuleFor(setting(symbol), ops(setting(symbol)));
 
-/** mulberry32, a small seeded generator (public-domain algorithm by T. Ettinger). */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 describe('monoclinicUniqueAxis', () => {
   it('reads the unique axis b, c or a from the 2-fold axis or the mirror', () => {

@@ -15,7 +15,7 @@
 import { describe, expect, it } from 'vitest';
 import { CUBIC_STRUCTURES, indexCubic, type CubicCandidate } from '../../../../core/indexing';
 import { noisyCase, type NoisyCase } from './cubic-pattern-generator';
-import { mulberry32 } from './seeded-random';
+import { mulberry32 } from '../../../support/seeded-random';
 
 const SEED = 20261202;
 const CASES = 1000;

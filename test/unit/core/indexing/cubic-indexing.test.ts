@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { indexCubic, type MeasuredRing } from '../../../../core/indexing';
-import { gaussian, mulberry32 } from './seeded-random';
+import { gaussian, mulberry32 } from '../../../support/seeded-random';
 
 /** Ring of a cubic cell of edge aA at N, with sigma = rel d and optional seeded relative noise. */
 function ring(aA: number, n: number, rel = 0.001, noise?: () => number): MeasuredRing {

@@ -8,7 +8,7 @@
  *   diamond (F d -3 m, site 8a): cF and, in addition, hkl: h = 2n + 1 or h + k + l = 4n
  */
 import type { CubicStructure } from '../../../../core/indexing';
-import { gaussian } from './seeded-random';
+import { gaussian } from '../../../support/seeded-random';
 
 export function allowedByTables(structure: CubicStructure, h: number, k: number, l: number): boolean {
   const allEven = h % 2 === 0 && k % 2 === 0 && l % 2 === 0;

@@ -1,22 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { dSpacingFromRadiusA, dSpacingWithUncertainty, electronWavelengthA, electronWavelengthSlopeAPerV } from '../../../../core/physics';
+import { gaussian, mulberry32 } from '../../../support/seeded-random';
 
 const camera = { wavelengthA: electronWavelengthA(200e3), cameraLengthPx: 5000 };
-
-/** Mulberry32: a small seeded generator, so the Monte Carlo below is repeatable. */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-function gaussian(rand: () => number): number {
-  return Math.sqrt(-2 * Math.log(1 - rand())) * Math.cos(2 * Math.PI * rand());
-}
 
 describe('dSpacingWithUncertainty', () => {
   it('matches central finite differences of dSpacingFromRadiusA for each input', () => {
