@@ -1,0 +1,19 @@
+/** One ring as measured from the radial profile (and, for quality, along its circumference). */
+export interface RingMeasurement {
+  /** Corrected radius of the peak (geometric mean of the semi-axes), px. */
+  radiusPx: number;
+  /** Standard uncertainty of radiusPx from the fit covariance, px. */
+  radiusSigmaPx: number;
+  /** Full width at half maximum of the fitted peak, px. */
+  fwhmPx: number;
+  /** Integrated intensity above the background in the profile, counts per pixel times px. */
+  intensity: number;
+  /** Peak height over the local noise of the profile. */
+  snr: number;
+  /** Fraction (0-1) of the circumference where the ring is seen above the background. */
+  continuity: number;
+  /** 0 for a smooth ring; larger for spotty rings of coarse grains (documented where computed). */
+  spottiness: number;
+  /** Relative amplitude of the azimuthal intensity variation (texture), 0 for uniform. */
+  textureAmplitude: number;
+}
