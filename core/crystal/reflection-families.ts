@@ -20,12 +20,18 @@
 import type { Hkl } from './hkl';
 import type { Phase } from './phase';
 import type { ReflectionFamily } from './predicted-ring';
-import { ELECTRON_SCATTERING_S_MAX_PER_A } from './electron-scattering-factor';
+import { ELECTRON_SCATTERING_S_MAX_PER_A, evaluateElectronScatteringFactor } from './electron-scattering-factor';
 import { preparedStructureOf, structureFactorA, type PreparedStructure } from './structure-factor';
 import type { SymmetryOperation } from './symmetry-operation';
 import { validateUnitCell } from './unit-cell';
 
-/** A family is absent (systematically or by accident of the structure) when |F|^2 <= ABSENT_RELATIVE x the largest |F|^2 of the list. */
+/**
+ * A family is absent (systematically or by accident of the structure) when
+ * |F|^2 <= ABSENT_RELATIVE x |F_max(s)|^2, where F_max(s) = sum_j occ_j f_j(s) exp(-B_j s^2)
+ * over every atom of the cell is the structure factor with all atoms scattering in
+ * phase: the largest |F| any reflection at that s could have. The test depends
+ * only on the reflection itself, not on which others are in range.
+ */
 export const ABSENT_RELATIVE = 1e-8;
 
 export interface ReflectionFamilyOptions {
@@ -123,13 +129,24 @@ export function compareByDDescending(a: { dA: number; hkl: Hkl }, b: { dA: numbe
  *
  * Each family: the representative hkl (rule in the module comment), the Laue-group
  * multiplicity, d (Å) and |F|^2 (Å^2, kinematic, electron scattering factors, B
- * included). A family counts as absent when |F|^2 <= 1e-8 times the largest |F|^2
- * among the families found; absent families are dropped unless includeAbsent.
+ * included). A family counts as absent when |F|^2 <= 1e-8 |F_max(s)|^2 (all atoms
+ * in phase, see ABSENT_RELATIVE); absent families are dropped unless includeAbsent.
  * The phase is validated and expanded once and cached (see preparedStructureOf).
  *
  * @throws RangeError for dMinA < 0.25 Å or not finite, dMaxA <= dMinA, and for a phase
  *   that prepareStructure rejects.
  */
+/** |F| with every atom of the cell scattering in phase at s (Å): the bound of any |F_hkl| there. */
+function inPhaseLimitA(prepared: PreparedStructure, sPerA: number): number {
+  const s2 = sPerA * sPerA;
+  let sum = 0;
+  for (const site of prepared.sites) {
+    const f = evaluateElectronScatteringFactor(site.coefficients, s2);
+    sum += site.occupancy * (site.positions.length / 3) * f * Math.exp(-site.bIsoA2 * s2);
+  }
+  return sum;
+}
+
 export function reflectionFamilies(phase: Phase, options: ReflectionFamilyOptions): ReflectionFamily[] {
   const { dMinA, dMaxA } = checkOptions(options);
   validateUnitCell(phase.cell);
@@ -175,12 +192,14 @@ export function reflectionFamilies(phase: Phase, options: ReflectionFamilyOption
           if (betterRepresentative(v, best)) best = v;
         }
         // s = 1/(2d); the clamp only trims the 1e-12 tolerance at dMinA = 0.25 Å.
-        const f = structureFactorA(prepared, best, Math.min(Math.sqrt(q) / 2, ELECTRON_SCATTERING_S_MAX_PER_A));
-        families.push({ hkl: best, multiplicity, dA: 1 / Math.sqrt(q), fSquaredA2: f.re * f.re + f.im * f.im });
+        const sPerA = Math.min(Math.sqrt(q) / 2, ELECTRON_SCATTERING_S_MAX_PER_A);
+        const f = structureFactorA(prepared, best, sPerA);
+        const f2 = f.re * f.re + f.im * f.im;
+        if (!options.includeAbsent && f2 <= ABSENT_RELATIVE * inPhaseLimitA(prepared, sPerA) ** 2) continue;
+        // Adding 0 turns the -0 a rotation can produce into 0, so JSON and labels never show "-0".
+        families.push({ hkl: [best[0] + 0, best[1] + 0, best[2] + 0], multiplicity, dA: 1 / Math.sqrt(q), fSquaredA2: f2 });
       }
     }
   }
-  const maxF2 = families.reduce((m, f) => Math.max(m, f.fSquaredA2), 0);
-  const kept = options.includeAbsent ? families : families.filter((f) => f.fSquaredA2 > ABSENT_RELATIVE * maxF2);
-  return kept.sort(compareByDDescending);
+  return families.sort(compareByDDescending);
 }

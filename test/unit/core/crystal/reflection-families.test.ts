@@ -118,3 +118,24 @@ describe('reflectionFamilies at the edge of the scattering-factor table', () => 
     expect(Math.min(...fam.map((f) => f.dA))).toBeGreaterThanOrEqual(0.25 * (1 - 1e-12));
   });
 });
+
+describe('reflectionFamilies absences do not depend on the range', () => {
+  it('drops the absent 1 0 0 of gold even when it is the only family in range', async () => {
+    const { findPhase, reflectionFamilies: families } = await import('../../../../core/crystal');
+    const au = findPhase('Au')!;
+    // d(100) = a = 4.08 Å; only 100 lies in [3, 5] Å, and F-centring makes it absent (International Tables Vol. A).
+    expect(families(au, { dMinA: 3, dMaxA: 5 })).toEqual([]);
+    expect(families(au, { dMinA: 3, dMaxA: 5, includeAbsent: true }).map((f) => f.hkl.join(''))).toEqual(['100']);
+  });
+});
+
+describe('reflectionFamilies representatives', () => {
+  it('never carry a negative zero index', async () => {
+    const { phaseLibrary, reflectionFamilies: families } = await import('../../../../core/crystal');
+    for (const phase of phaseLibrary()) {
+      for (const f of families(phase, { dMinA: 0.9 })) {
+        for (const i of f.hkl) expect(Object.is(i, -0)).toBe(false);
+      }
+    }
+  });
+});
