@@ -9,6 +9,7 @@ import { EXIT, InputError, NothingFoundError, UsageError } from './exit-codes';
 import { registerIndex } from './commands/index-rings';
 import { registerPhases } from './commands/phases';
 import { registerRings } from './commands/rings';
+import { registerSimulate } from './commands/simulate';
 import { registerWavelength } from './commands/wavelength';
 
 const EXIT_CODE_HELP = `
@@ -38,6 +39,7 @@ function buildProgram(io: CliIo): Command {
   registerPhases(program, io);
   registerRings(program, io);
   registerIndex(program, io);
+  registerSimulate(program, io);
   for (const sub of program.commands) {
     sub.exitOverride().showHelpAfterError(`(run annula ${sub.name()} --help for usage)`);
     sub.configureOutput(program.configureOutput());

@@ -6,3 +6,4 @@ export * from './image-decode-options';
 export { DEFAULT_MAX_PIXELS } from './image-size-limit';
 export { LUMINANCE_WEIGHTS_BT709 } from './luminance';
 export type { ImageFormat } from './sniff-image-format';
+export * from './encode-tiff';
