@@ -16,4 +16,18 @@ export interface RingMeasurement {
   spottiness: number;
   /** Relative amplitude of the azimuthal intensity variation (texture), 0 for uniform. */
   textureAmplitude: number;
+  /** pseudo-Voigt mixing of the fitted peak (0 Gaussian, 1 Lorentzian), when fitted. */
+  eta?: number;
+  /** sqrt(C_RR) of the absolute covariance alone, before any widening by the reduced chi-square, px. */
+  radiusSigmaAbsolutePx?: number;
+  /** Reduced chi-square of the fit that gave the radius. */
+  reducedChiSquare?: number;
+  /** Azimuth of the texture maximum, degrees from +x toward +y in [0, 180); NaN when not measured. */
+  textureAngleDeg?: number;
+  /** Fraction (0-1) of the circumference that was measured (unmasked and inside the image). */
+  visibleFraction?: number;
+  /** Photon-counting (Cramer-Rao) limit on radiusSigmaPx for this ring, px; NaN when the counts scale is unknown. */
+  radiusBoundPx?: number;
+  /** How the fit was made when it needed a note (eta fixed, ...), or why a quality figure is missing. */
+  note?: string;
 }

@@ -13,7 +13,6 @@ export * from './resolve-simulation-spec';
 export * from './simulation-description';
 export * from './seeded-random';
 export * from './poisson-deviate';
-export * from './pseudo-voigt';
 export * from './ring-line-shape';
 export * from './diffuse-background';
 export * from './amorphous-halo';

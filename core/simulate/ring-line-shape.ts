@@ -14,7 +14,13 @@
  * the ring's area is computed with it (ringLineShapeArea), so the truth stays exact.
  */
 
-import { checkPseudoVoigt, pseudoVoigt, pseudoVoigtPeak } from './pseudo-voigt';
+import { pseudoVoigt, pseudoVoigtHeight } from '../rings/pseudo-voigt';
+
+/** Throws a RangeError unless fwhm > 0 and 0 <= eta <= 1 (both finite). */
+export function checkPseudoVoigt(fwhmPx: number, eta: number, label = ''): void {
+  if (!(fwhmPx > 0) || !Number.isFinite(fwhmPx)) throw new RangeError(`${label}fwhmPx must be > 0 px; got ${fwhmPx}`);
+  if (!(eta >= 0 && eta <= 1)) throw new RangeError(`${label}eta must lie in [0, 1] (the Lorentzian fraction of the area); got ${eta}`);
+}
 
 /** Where the roll-off starts and where the ring ends, in units of its FWHM. */
 export const RING_TAPER_START_FWHM = 10;
@@ -41,7 +47,9 @@ export function ringLineShape(fwhmPx: number, eta: number): RingLineShape {
 export function ringLineShapeValue(shape: RingLineShape, xPx: number): number {
   const ax = Math.abs(xPx);
   if (ax >= shape.extentPx) return 0;
-  const value = pseudoVoigt(ax, shape.fwhmPx, shape.eta) / pseudoVoigtPeak(shape.fwhmPx, shape.eta);
+  // The same unit-area pseudo-Voigt the peak fits use (core/rings/pseudo-voigt.ts), scaled to 1 at its centre.
+  const unit = { area: 1, centerPx: 0, fwhmPx: shape.fwhmPx, eta: shape.eta };
+  const value = pseudoVoigt(unit, ax) / pseudoVoigtHeight(unit);
   if (ax <= shape.taperStartPx) return value;
   const t = (ax - shape.taperStartPx) / (shape.extentPx - shape.taperStartPx);
   return value * 0.5 * (1 + Math.cos(Math.PI * t));

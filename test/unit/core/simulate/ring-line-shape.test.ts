@@ -1,13 +1,16 @@
 import { describe, expect, it } from 'vitest';
+import { pseudoVoigt as pseudoVoigtPeakShape, pseudoVoigtHeight } from '../../../../core/rings/pseudo-voigt';
 import {
-  pseudoVoigt,
-  pseudoVoigtPeak,
   RING_EXTENT_FWHM,
   RING_TAPER_START_FWHM,
   ringLineShape,
   ringLineShapeArea,
   ringLineShapeValue,
 } from '../../../../core/simulate';
+
+/** The unit-area pseudo-Voigt the simulator uses (core/rings), written as a function of offset, FWHM and eta. */
+const pseudoVoigt = (x: number, fwhmPx: number, eta: number): number => pseudoVoigtPeakShape({ area: 1, centerPx: 0, fwhmPx, eta }, x);
+const pseudoVoigtPeak = (fwhmPx: number, eta: number): number => pseudoVoigtHeight({ area: 1, centerPx: 0, fwhmPx, eta });
 
 /** Trapezoid integral of f over [a, b] in n steps. */
 function integrate(f: (x: number) => number, a: number, b: number, n: number): number {
