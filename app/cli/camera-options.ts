@@ -13,7 +13,7 @@ import { parseQuantity } from '../common/quantity';
 import { UsageError } from './exit-codes';
 
 export interface CameraFlags {
-  voltage: string;
+  voltage?: string;
   cameraLength?: string;
   pixelSize?: string;
   scale?: string;
@@ -31,7 +31,7 @@ export interface CameraSettings {
 /** Adds --voltage, --camera-length, --pixel-size and --scale to a command. */
 export function addCameraOptions(command: Command, cameraRequired: boolean): Command {
   return command
-    .requiredOption('--voltage <value>', 'accelerating voltage with its unit, e.g. 200kV')
+    .option('--voltage <value>', 'accelerating voltage with its unit, e.g. 200kV (required)')
     .option('--camera-length <value>', `camera length with its unit, e.g. 1.2m or 850mm (with --pixel-size)${cameraRequired ? '' : '; optional'}`)
     .option('--pixel-size <value>', 'detector pixel pitch with its unit, binning included, e.g. 14um')
     .option('--scale <value>', 'reciprocal scale per pixel at the pattern centre, e.g. 0.0123/nm (instead of camera length and pixel size)');
@@ -39,6 +39,7 @@ export function addCameraOptions(command: Command, cameraRequired: boolean): Com
 
 /** Reads the camera flags; throws UsageError for incomplete or conflicting descriptions. */
 export function readCameraFlags(flags: CameraFlags, cameraRequired: boolean): CameraSettings {
+  if (flags.voltage === undefined) throw new UsageError('give the accelerating voltage, e.g. --voltage 200kV');
   const voltageV = parseQuantity(flags.voltage, 'voltage', '--voltage');
   const wavelengthA = electronWavelengthA(voltageV);
   const physical = flags.cameraLength !== undefined || flags.pixelSize !== undefined;

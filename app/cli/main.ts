@@ -6,6 +6,7 @@ import { Command, CommanderError } from 'commander';
 import { QuantityError } from '../common/quantity';
 import { processIo, type CliIo } from './cli-io';
 import { EXIT, InputError, NothingFoundError, UsageError } from './exit-codes';
+import { registerAnalyze } from './commands/analyze';
 import { registerIndex } from './commands/index-rings';
 import { registerPhases } from './commands/phases';
 import { registerRings } from './commands/rings';
@@ -39,6 +40,7 @@ function buildProgram(io: CliIo): Command {
   registerPhases(program, io);
   registerRings(program, io);
   registerIndex(program, io);
+  registerAnalyze(program, io);
   registerSimulate(program, io);
   for (const sub of program.commands) {
     sub.exitOverride().showHelpAfterError(`(run annula ${sub.name()} --help for usage)`);

@@ -1,6 +1,6 @@
 /**
  * A baseline TIFF writer for one-channel images: 16-bit unsigned integers or 32-bit
- * IEEE floats, little-endian ("II"), uncompressed, in strips, with the fields a reader
+ * IEEE floats, little-endian ("II"), uncompressed or deflated, in strips, with the fields a reader
  * needs and, when given, ImageDescription, Software and the X/Y resolution.
  *
  * Layout (TIFF Revision 6.0, Adobe 1992, section 2 "TIFF Structure" and section 8
@@ -19,6 +19,7 @@
  * refuse characters outside 7-bit ASCII (the TIFF ASCII type).
  */
 
+import { deflate } from 'pako';
 import type { Raster } from './raster';
 
 export interface TiffEncodeOptions {
@@ -32,6 +33,13 @@ export interface TiffEncodeOptions {
   resolution?: { xPerUnit: number; yPerUnit: number; unit: 'inch' | 'cm' | 'none' };
   /** Rows per strip, >= 1; default the rows that fit in 64 KiB (at least 1). */
   rowsPerStrip?: number;
+  /**
+   * 'none' (default) or 'deflate': Adobe deflate (Compression 8, zlib stream per strip,
+   * TIFF Technical Note 2 / the Adobe PageMaker 6.0 TIFF Technical Notes) with the
+   * horizontal-differencing predictor (Predictor 2, TIFF 6.0 section 14) for uint16;
+   * float32 is deflated without a predictor.
+   */
+  compression?: 'none' | 'deflate';
 }
 
 const TYPE_ASCII = 2;
@@ -117,13 +125,21 @@ export function encodeTiff(raster: Raster, options: TiffEncodeOptions = {}): Uin
   const resolution = options.resolution ?? { xPerUnit: 1, yPerUnit: 1, unit: 'none' as const };
   if (!(resolution.unit in UNIT_CODE)) throw new RangeError(`resolution.unit must be 'inch', 'cm' or 'none'; got ${JSON.stringify(resolution.unit)}`);
 
-  const stripByteCounts: number[] = [];
-  for (let s = 0; s < stripCount; s++) stripByteCounts.push(Math.min(rowsPerStrip, height - s * rowsPerStrip) * rowBytes);
+  const compression = options.compression ?? 'none';
+  if (compression !== 'none' && compression !== 'deflate') throw new RangeError(`compression must be 'none' or 'deflate'; got ${JSON.stringify(compression)}`);
+  const predictor = compression === 'deflate' && format === 'uint16';
+  const strips: Uint8Array[] = [];
+  for (let st = 0; st < stripCount; st++) {
+    const rows = Math.min(rowsPerStrip, height - st * rowsPerStrip);
+    const raw = stripSamples(data, width, st * rowsPerStrip, rows, format, predictor);
+    strips.push(compression === 'deflate' ? deflate(raw) : raw);
+  }
+  const stripByteCounts = strips.map((b) => b.length);
   const entries: Entry[] = [
     { tag: 256, type: TYPE_LONG, count: 1, longs: [width] },
     { tag: 257, type: TYPE_LONG, count: 1, longs: [height] },
     { tag: 258, type: TYPE_SHORT, count: 1, shorts: [8 * bytesPerSample] },
-    { tag: 259, type: TYPE_SHORT, count: 1, shorts: [1] },
+    { tag: 259, type: TYPE_SHORT, count: 1, shorts: [compression === 'deflate' ? 8 : 1] },
     { tag: 262, type: TYPE_SHORT, count: 1, shorts: [1] },
   ];
   if (options.description !== undefined) {
@@ -144,6 +160,7 @@ export function encodeTiff(raster: Raster, options: TiffEncodeOptions = {}): Uin
     const ascii = asciiBytes(options.software, 'software (Software)');
     entries.push({ tag: 305, type: TYPE_ASCII, count: ascii.length, ascii });
   }
+  if (predictor) entries.push({ tag: 317, type: TYPE_SHORT, count: 1, shorts: [2] });
   entries.push({ tag: 339, type: TYPE_SHORT, count: 1, shorts: [format === 'uint16' ? 1 : 3] });
 
   const valueBytes = (e: Entry): number => (e.ascii ? e.ascii.length : e.rational ? 8 : e.count * (e.type === TYPE_SHORT ? 2 : 4));
@@ -159,9 +176,13 @@ export function encodeTiff(raster: Raster, options: TiffEncodeOptions = {}): Uin
     }
   }
   const pixelStart = cursor;
-  const totalBytes = pixelStart + rowBytes * height;
+  const totalBytes = pixelStart + stripByteCounts.reduce((a, b) => a + b + (b & 1), 0);
   if (totalBytes > UINT32_MAX) throw new RangeError(`a ${width} x ${height} ${format} image needs ${totalBytes} bytes, past the 4 GiB of a classic TIFF`);
-  for (let s = 0; s < stripCount; s++) stripOffsets.longs![s] = pixelStart + s * rowsPerStrip * rowBytes;
+  let stripAt = pixelStart;
+  for (let st = 0; st < stripCount; st++) {
+    stripOffsets.longs![st] = stripAt;
+    stripAt += stripByteCounts[st]! + (stripByteCounts[st]! & 1);
+  }
 
   const bytes = new Uint8Array(totalBytes);
   const view = new DataView(bytes.buffer);
@@ -191,18 +212,36 @@ export function encodeTiff(raster: Raster, options: TiffEncodeOptions = {}): Uin
   });
   view.setUint32(ifdOffset + 2 + 12 * entries.length, 0, true);
 
-  if (format === 'uint16') {
-    for (let i = 0; i < data.length; i++) {
-      const v = data[i]!;
+  strips.forEach((b, st) => bytes.set(b, stripOffsets.longs![st]!));
+  return bytes;
+}
+
+/**
+ * Little-endian samples of `rows` rows from `row0`; with `predictor`, each uint16 row as
+ * differences from the sample to its left, modulo 2^16 (TIFF 6.0 section 14, Predictor 2).
+ * @throws RangeError for a uint16 sample that is not an integer from 0 to 65535
+ */
+function stripSamples(data: Float32Array, width: number, row0: number, rows: number, format: 'uint16' | 'float32', predictor: boolean): Uint8Array {
+  const out = new Uint8Array(rows * width * (format === 'uint16' ? 2 : 4));
+  const view = new DataView(out.buffer);
+  for (let r = 0; r < rows; r++) {
+    const base = (row0 + r) * width;
+    let left = 0;
+    for (let i = 0; i < width; i++) {
+      const v = data[base + i]!;
+      const at = r * width + i;
+      if (format === 'float32') {
+        view.setFloat32(4 * at, v, true);
+        continue;
+      }
       if (!(v >= 0 && v <= 65535) || v !== Math.floor(v)) {
         throw new RangeError(
-          `pixel (${i % width}, ${Math.floor(i / width)}) = ${v} is not an integer from 0 to 65535; round and clip the data first, or write sampleFormat 'float32'`,
+          `pixel (${i}, ${row0 + r}) = ${v} is not an integer from 0 to 65535; round and clip the data first, or write sampleFormat 'float32'`,
         );
       }
-      view.setUint16(pixelStart + 2 * i, v, true);
+      view.setUint16(2 * at, predictor ? (v - left) & 0xffff : v, true);
+      left = v;
     }
-  } else {
-    for (let i = 0; i < data.length; i++) view.setFloat32(pixelStart + 4 * i, data[i]!, true);
   }
-  return bytes;
+  return out;
 }

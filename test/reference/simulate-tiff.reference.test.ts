@@ -113,4 +113,16 @@ describe.runIf(referenceAvailable('tifffile', 'PIL', 'numpy'))('encodeTiff read 
     expect(ref.description).toBe('expected counts');
     expect(ref.resolutionUnit).toBe(1);
   });
+
+  it('a deflated uint16 image with the horizontal predictor comes back from tifffile with every sample', () => {
+    const { raster } = simulatePattern(spec);
+    const path = join(dir, 'gold-deflate.tif');
+    const bytes = encodeTiff(raster, { compression: 'deflate', rowsPerStrip: 7, description: 'deflated', software: 'annula simulate' });
+    writeFileSync(path, bytes);
+    const ref = runPythonJson<PythonRead & { predictor: number }>(READ.replace('"firstRow": a[0].tolist(),', '"firstRow": a[0].tolist(), "predictor": int(tags["Predictor"].value),'), { path, pillow: false });
+    expect(ref.compression).toBe(8); // Adobe deflate (TIFF Technical Note 2)
+    expect(ref.predictor).toBe(2); // horizontal differencing (TIFF 6.0 section 14)
+    expect(ref.sha256).toBe(sha256(new Uint8Array(Uint16Array.from(raster.data).buffer)));
+    expect(bytes.length).toBeLessThan(raster.data.length * 2);
+  });
 });

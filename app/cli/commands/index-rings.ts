@@ -1,12 +1,10 @@
 import type { Command } from 'commander';
-import { formatHkl } from '../../../core/crystal';
 import { indexRings, type MeasuredRing } from '../../../core/indexing';
 import { parseLengthWithDefault, parseRelative } from '../../common/quantity';
 import { printJson, type CliIo } from '../cli-io';
 import { NothingFoundError, UsageError } from '../exit-codes';
 import { collectPhases } from '../phase-sources';
-import { fixed, withUncertainty } from '../number-format';
-import { formatTable } from '../terminal-table';
+import { printCandidates, printCaution } from '../candidate-report';
 
 interface IndexOptions {
   d: string;
@@ -17,10 +15,6 @@ interface IndexOptions {
   library: boolean;
   json?: boolean;
 }
-
-const CAUTION =
-  'Candidates rank how well the measured d-spacings (and intensities) fit; they are evidence for, not proof of, a phase. ' +
-  "Confirm against the lab's own procedures before a release decision.";
 
 function splitList(text: string): string[] {
   return text.split(',').map((s) => s.trim()).filter((s) => s !== '');
@@ -81,7 +75,8 @@ export function registerIndex(program: Command, io: CliIo): void {
       if (opts.json) {
         printJson(io, output);
       } else {
-        printReadable(io, rings, output);
+        printCandidates(io, rings.length, output);
+        printCaution(io);
       }
       if (!result.conclusion.conclusive) {
         throw new NothingFoundError(`no convincing answer: ${result.conclusion.reason}`);
@@ -89,37 +84,3 @@ export function registerIndex(program: Command, io: CliIo): void {
     });
 }
 
-function printReadable(io: CliIo, rings: MeasuredRing[], result: ReturnType<typeof indexRings>): void {
-  const best = result.candidates[0];
-  io.out(
-    formatTable(
-      ['#', 'candidate', 'lattice', 'a (Å)', 'strain', 'FOM', 'explained', 'unexplained d (Å)'],
-      result.candidates.map((c, i) => [
-        String(i + 1),
-        c.phase ? `${c.phase} (${c.phaseName})` : `${c.structure} lattice`,
-        c.lattice,
-        withUncertainty(c.aA, c.aSigmaA),
-        c.strainPpm === undefined ? '' : `${fixed(c.strainPpm / 1e4, 2)}%`,
-        `${c.figureOfMeritName.split(' ').pop()} ${fixed(c.figureOfMerit, 1)}`,
-        `${c.explainedCount}/${rings.length}`,
-        c.unexplained.map((d) => d.toFixed(4)).join(', '),
-      ]),
-      ['right', 'left', 'left', 'right', 'right', 'left', 'right', 'left'],
-    ),
-  );
-  if (best) {
-    io.out(`\n${result.conclusion.conclusive ? 'Best' : 'Best of weak candidates (not an answer)'}: ${best.label}`);
-    io.out(
-      formatTable(
-        ['d obs (Å)', 'hkl', 'd calc (Å)', 'residual/sigma'],
-        best.assignments.map((a) => [a.dA.toFixed(4), formatHkl(a.hkl), a.dCalcA.toFixed(4), fixed(a.residualSigma, 2)]),
-        ['right', 'left', 'right', 'right'],
-      ),
-    );
-    if (best.missing.length > 0) io.out(`Predicted but not observed: ${best.missing.map((m) => `${formatHkl(m.hkl)} (${m.dA.toFixed(4)} Å)`).join(', ')}`);
-  }
-  for (const a of result.ambiguities) io.out(`Equivalent on these data: #${a.candidates[0] + 1} and #${a.candidates[1] + 1}: ${a.reason}`);
-  for (const s of result.secondPhase) io.out(`Possible second phase: ring at ${s.dA.toFixed(4)} Å could be ${s.phaseIds.join(', ') || 'none of the library phases'}`);
-  for (const n of result.notes) io.out(`Note: ${n}`);
-  io.out(`\nCaution: ${CAUTION}`);
-}

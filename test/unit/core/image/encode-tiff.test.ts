@@ -86,3 +86,22 @@ describe('tiffRational', () => {
     }
   });
 });
+
+describe('encodeTiff with deflate', () => {
+  it('round-trips uint16 and float32 through decodeImage, with the predictor for uint16', () => {
+    const width = 37;
+    const height = 11;
+    const data = Float32Array.from({ length: width * height }, (_, i) => (i * 7919) % 65536);
+    const raster = { width, height, data };
+    const u16 = decodeImage(encodeTiff(raster, { compression: 'deflate', rowsPerStrip: 4 }));
+    expect(Array.from(u16.raster.data)).toEqual(Array.from(data));
+    expect(u16.info.compression).toMatch(/deflate/i);
+    const f = Float32Array.from({ length: width * height }, (_, i) => Math.sin(i) * 1e3);
+    const f32 = decodeImage(encodeTiff({ width, height, data: f }, { compression: 'deflate', sampleFormat: 'float32' }));
+    expect(Array.from(f32.raster.data)).toEqual(Array.from(f));
+  });
+
+  it('rejects an unknown compression by name', () => {
+    expect(() => encodeTiff({ width: 1, height: 1, data: new Float32Array(1) }, { compression: 'lzw' as never })).toThrow(/compression must be 'none' or 'deflate'/);
+  });
+});

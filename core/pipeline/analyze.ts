@@ -1,0 +1,225 @@
+/**
+ * One pattern, end to end:
+ *   masks (saturated, hot pixels, beam stop, user polygons)
+ *   -> geometry: centre and elliptical distortion (refineFrame: first estimate,
+ *      ring points, concentric ellipse fit)
+ *   -> radial profile in the corrected frame, background, pseudo-Voigt peak fits
+ *      and ring quality (measureRings)
+ *   -> d-spacings by the exact flat-detector geometry with uncertainties
+ *   -> cubic lattices and phases (indexRings).
+ *
+ * Every stage is callable alone (buildPatternMask, refineFrame, measureRings,
+ * ringDSpacings, indexRings); `analyzeInFrame` re-runs the stages after the
+ * geometry, for a surface where the user moves the centre.
+ *
+ * An image with no rings gives status 'no-rings' with its profile and a
+ * reason among the warnings, never a made-up answer.
+ */
+import { indexRings, type MeasuredRing } from '../indexing';
+import { judgeIndexing } from '../indexing/indexing-conclusion';
+import type { OpenCv } from '../image/opencv-handle';
+import type { Raster } from '../image/raster';
+import { electronWavelengthA } from '../physics';
+import type { FrameSigma } from '../rings/concentric-ellipse-fit';
+import { measureRings } from '../rings/measure-rings';
+import type { PatternFrame } from '../rings/pattern-frame';
+import type { PixelMask } from '../rings/pixel-mask';
+import { refineFrame, type RefinedRing } from '../rings/refine-frame';
+import type { AnalysisResult, AnalyzedRing } from './analysis-result';
+import type { AnalysisProgress, AnalysisSettings } from './analysis-settings';
+import { buildPatternMask, type PatternMaskSummary } from './pattern-mask';
+import { ringDSpacings } from './ring-d-spacings';
+
+/** Wall clock in ms: the platform's high-resolution clock where there is one (Node, browsers, workers), else Date. */
+const clock = (globalThis as { performance?: { now(): number } }).performance;
+const now = (): number => (clock ? clock.now() : Date.now());
+
+function finiteOrNull(x: number): number | null {
+  return Number.isFinite(x) ? x : null;
+}
+
+function checkSettings(settings: AnalysisSettings): void {
+  const c = settings.camera;
+  if (!(c.voltageV > 0)) throw new RangeError(`camera.voltageV must be a positive voltage in V; got ${c.voltageV}`);
+  if (!(c.cameraLengthPx > 0)) throw new RangeError(`camera.cameraLengthPx must be positive (camera length over pixel pitch); got ${c.cameraLengthPx}`);
+  if (!(c.cameraLengthSigmaPx >= 0)) throw new RangeError(`camera.cameraLengthSigmaPx must be >= 0; got ${c.cameraLengthSigmaPx}`);
+}
+
+/** What the geometry stage hands to the later stages. */
+export interface PatternGeometry {
+  frame: PatternFrame;
+  sigma: FrameSigma;
+  rings: RefinedRing[];
+  warnings: string[];
+}
+
+/**
+ * Analyses `raster` with the camera and phases of `settings`.
+ * @param cv the OpenCV handle loaded by the surface (Node or Web Worker build)
+ * @param onProgress called at the start and end of each stage with a fraction in [0, 1]
+ * @throws RangeError for malformed settings (never for data without rings)
+ */
+export function analyze(raster: Raster, settings: AnalysisSettings, onProgress: AnalysisProgress = () => {}, cv: OpenCv): AnalysisResult {
+  checkSettings(settings);
+  const timingsMs: Record<string, number> = {};
+  let t = now();
+  onProgress('masks', 0);
+  const masks = buildPatternMask(raster, cv, {
+    image: settings.image,
+    ...(settings.saturationLevel !== undefined ? { saturationLevel: settings.saturationLevel } : {}),
+    ...(settings.detectBeamStop !== undefined ? { detectBeamStop: settings.detectBeamStop } : {}),
+    ...(settings.maskPolygons ? { polygons: settings.maskPolygons } : {}),
+  });
+  onProgress('masks', 1);
+  timingsMs.masks = now() - t;
+
+  t = now();
+  onProgress('geometry', 0);
+  const refined = refineFrame(raster, masks.mask, {
+    ...(settings.startFrame ? { start: settings.startFrame } : {}),
+    fitDistortion: settings.fitDistortion ?? true,
+  }, cv);
+  onProgress('geometry', 1);
+  timingsMs.geometry = now() - t;
+
+  if (!refined.ok) {
+    // No centre or no rings at all: report the profile around the best guess we have, if any.
+    const frame = refined.frame;
+    const warnings = [...refined.warnings, `no pattern geometry: ${refined.reason}`];
+    if (frame) {
+      const inFrame = analyzeInFrame(raster, masks.mask, { frame, sigma: { centerXPx: Number.NaN, centerYPx: Number.NaN, axisRatio: Number.NaN, angleDeg: Number.NaN }, rings: [], warnings }, settings, masks.summary, onProgress);
+      return { ...inFrame, status: inFrame.rings.length === 0 ? 'no-rings' : 'no-geometry', timingsMs: { ...timingsMs, ...inFrame.timingsMs } };
+    }
+    return emptyResult(raster, settings, masks.summary, warnings, timingsMs);
+  }
+  const result = analyzeInFrame(raster, masks.mask, { frame: refined.frame, sigma: refined.sigma, rings: refined.rings, warnings: refined.warnings }, settings, masks.summary, onProgress);
+  return { ...result, timingsMs: { ...timingsMs, ...result.timingsMs } };
+}
+
+function emptyResult(raster: Raster, settings: AnalysisSettings, masks: PatternMaskSummary, warnings: string[], timingsMs: Record<string, number>): AnalysisResult {
+  const c = settings.camera;
+  return {
+    image: { width: raster.width, height: raster.height, bitsPerSample: settings.image.bitsPerSample },
+    voltageV: c.voltageV,
+    wavelengthA: electronWavelengthA(c.voltageV),
+    camera: { cameraLengthPx: c.cameraLengthPx, cameraLengthSigmaPx: c.cameraLengthSigmaPx, source: c.source, calibrated: c.calibrated },
+    center: { xPx: Number.NaN, yPx: Number.NaN, sigmaPx: Number.NaN, sigmaXPx: Number.NaN, sigmaYPx: Number.NaN },
+    distortion: { axisRatio: 1, axisRatioSigma: Number.NaN, angleDeg: 0, angleSigmaDeg: null, perRing: [] },
+    masks,
+    rings: [],
+    profile: { rMinPx: 0, binWidthPx: 0, radiusPx: [], mean: [], background: [] },
+    candidates: [],
+    ambiguities: [],
+    secondPhase: [],
+    conclusion: judgeIndexing([], null),
+    status: 'no-geometry',
+    warnings,
+    notes: [],
+    timingsMs,
+  };
+}
+
+/**
+ * The stages after the geometry: profile, peaks, d-spacings and indexing in a
+ * given frame (for instance one the user placed by hand).
+ */
+export function analyzeInFrame(
+  raster: Raster,
+  mask: PixelMask,
+  geometry: PatternGeometry,
+  settings: AnalysisSettings,
+  maskSummary: PatternMaskSummary,
+  onProgress: AnalysisProgress = () => {},
+): AnalysisResult {
+  checkSettings(settings);
+  const timingsMs: Record<string, number> = {};
+  const camera = settings.camera;
+  const warnings = [...geometry.warnings];
+  if (maskSummary.saturatedPixels > 0) warnings.push(`${maskSummary.saturatedPixels} saturated pixels were excluded`);
+  if (!camera.calibrated) {
+    warnings.push(
+      'the camera length is nominal, not calibrated: every d and lattice constant carries its error (nominal camera lengths are often off by a few percent, common practice); calibrate on a standard film for accurate values',
+    );
+  }
+
+  let t = now();
+  onProgress('profile', 0);
+  const measured = measureRings(raster, mask, geometry.frame);
+  onProgress('profile', 1);
+  timingsMs.profile = now() - t;
+  warnings.push(...measured.warnings);
+  if (measured.reason) warnings.push(`no rings: ${measured.reason}`);
+
+  t = now();
+  onProgress('d-spacings', 0);
+  const ds = ringDSpacings(measured.rings, camera);
+  onProgress('d-spacings', 1);
+
+  onProgress('indexing', 0);
+  const rings: MeasuredRing[] = measured.rings.map((r, i) => ({ dA: ds[i]!.dA, dSigmaA: Math.max(ds[i]!.dSigmaA, 1e-6 * ds[i]!.dA), intensity: Math.max(0, r.intensity) }));
+  const calibrationRelativeSigma = settings.calibrationRelativeSigma ?? camera.cameraLengthSigmaPx / camera.cameraLengthPx;
+  const indexing = rings.length >= 2
+    ? indexRings(rings, { phases: settings.phases, ...(calibrationRelativeSigma > 0 ? { calibrationRelativeSigma } : {}) })
+    : { candidates: [], ambiguities: [], secondPhase: [], conclusion: judgeIndexing(rings, null), notes: [rings.length === 1 ? 'only one ring was measured: no lattice can be indexed from it' : ''].filter(Boolean) };
+  onProgress('indexing', 1);
+  timingsMs.indexing = now() - t;
+
+  const best = indexing.candidates[0];
+  const assigned = new Map<number, { hkl: AnalyzedRing['hkl'] }>();
+  if (best && indexing.conclusion.conclusive) for (const a of best.assignments) assigned.set(a.ringIndex, { hkl: a.hkl });
+
+  const analyzedRings: AnalyzedRing[] = measured.rings.map((r, i) => ({
+    radiusPx: r.radiusPx,
+    radiusSigmaPx: r.radiusSigmaPx,
+    radiusBoundPx: finiteOrNull(r.radiusBoundPx ?? Number.NaN),
+    dA: ds[i]!.dA,
+    dSigmaA: ds[i]!.dSigmaA,
+    fwhmPx: r.fwhmPx,
+    intensity: r.intensity,
+    snr: r.snr,
+    continuity: r.continuity,
+    spottiness: r.spottiness,
+    textureAmplitude: r.textureAmplitude,
+    hkl: assigned.get(i)?.hkl ?? null,
+    phase: assigned.has(i) ? best!.phase : null,
+  }));
+
+  const s = geometry.sigma;
+  return {
+    image: { width: raster.width, height: raster.height, bitsPerSample: settings.image.bitsPerSample },
+    voltageV: camera.voltageV,
+    wavelengthA: electronWavelengthA(camera.voltageV),
+    camera: { cameraLengthPx: camera.cameraLengthPx, cameraLengthSigmaPx: camera.cameraLengthSigmaPx, source: camera.source, calibrated: camera.calibrated },
+    center: {
+      xPx: geometry.frame.centerXPx,
+      yPx: geometry.frame.centerYPx,
+      sigmaPx: Math.sqrt((s.centerXPx ** 2 + s.centerYPx ** 2) / 2),
+      sigmaXPx: s.centerXPx,
+      sigmaYPx: s.centerYPx,
+    },
+    distortion: {
+      axisRatio: geometry.frame.axisRatio,
+      axisRatioSigma: s.axisRatio,
+      angleDeg: geometry.frame.angleDeg,
+      angleSigmaDeg: finiteOrNull(s.angleDeg),
+      perRing: geometry.rings.flatMap((r) => (r.ellipse ? [{ radiusPx: r.ellipse.radiusPx, axisRatio: r.ellipse.axisRatio, angleDeg: r.ellipse.angleDeg, centerXPx: r.ellipse.centerXPx, centerYPx: r.ellipse.centerYPx }] : [])),
+    },
+    masks: maskSummary,
+    rings: analyzedRings,
+    profile: {
+      rMinPx: measured.profile.rMinPx,
+      binWidthPx: measured.profile.binWidthPx,
+      radiusPx: Array.from(measured.profile.radiusPx),
+      mean: Array.from(measured.profile.mean),
+      background: Array.from(measured.background),
+    },
+    candidates: indexing.candidates,
+    ambiguities: indexing.ambiguities,
+    secondPhase: indexing.secondPhase,
+    conclusion: indexing.conclusion,
+    status: analyzedRings.length === 0 ? 'no-rings' : 'ok',
+    warnings,
+    notes: indexing.notes,
+    timingsMs,
+  };
+}
