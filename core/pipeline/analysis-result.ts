@@ -47,7 +47,7 @@ export interface AnalysisResult {
     axisRatioSigma: number;
     angleDeg: number;
     angleSigmaDeg: number | null;
-    perRing: Array<{ radiusPx: number; axisRatio: number; angleDeg: number; centerXPx: number; centerYPx: number }>;
+    perRing: Array<{ radiusPx: number; axisRatio: number; axisRatioSigma: number | null; angleDeg: number; angleSigmaDeg: number | null; centerXPx: number; centerYPx: number }>;
   };
   masks: PatternMaskSummary;
   rings: AnalyzedRing[];

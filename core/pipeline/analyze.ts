@@ -202,7 +202,20 @@ export function analyzeInFrame(
       axisRatioSigma: s.axisRatio,
       angleDeg: geometry.frame.angleDeg,
       angleSigmaDeg: finiteOrNull(s.angleDeg),
-      perRing: geometry.rings.flatMap((r) => (r.ellipse ? [{ radiusPx: r.ellipse.radiusPx, axisRatio: r.ellipse.axisRatio, angleDeg: r.ellipse.angleDeg, centerXPx: r.ellipse.centerXPx, centerYPx: r.ellipse.centerYPx }] : [])),
+      perRing: geometry.rings.flatMap((r) =>
+        r.ellipse
+          ? [{
+              radiusPx: r.ellipse.radiusPx,
+              axisRatio: r.ellipse.axisRatio,
+              // Uncertainties from the ring's own geometric fit (single-ring concentric model); null when it failed.
+              axisRatioSigma: r.ownFrame ? r.ownFrame.sigma.axisRatio : null,
+              angleDeg: r.ellipse.angleDeg,
+              angleSigmaDeg: r.ownFrame ? finiteOrNull(r.ownFrame.sigma.angleDeg) : null,
+              centerXPx: r.ellipse.centerXPx,
+              centerYPx: r.ellipse.centerYPx,
+            }]
+          : [],
+      ),
     },
     masks: maskSummary,
     rings: analyzedRings,
