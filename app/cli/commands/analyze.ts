@@ -102,22 +102,9 @@ function readCenter(text: string): { x: number; y: number } {
 
 /** Rows of the ring table, for CSV and for people. */
 export function ringRows(result: AnalysisResult): Array<Record<string, string | number | null>> {
-  return result.rings.map((r, i) => ({
-    ring: i + 1,
-    radiusPx: r.radiusPx,
-    radiusSigmaPx: r.radiusSigmaPx,
-    dA: r.dA,
-    dSigmaA: r.dSigmaA,
-    fwhmPx: r.fwhmPx,
-    intensity: r.intensity,
-    snr: r.snr,
-    continuity: r.continuity,
-    spottiness: r.spottiness,
-    textureAmplitude: r.textureAmplitude,
-    hkl: r.hkl ? formatHkl(r.hkl) : null,
-    phase: r.phase,
-  }));
+  return result.rings.map((r, i) => ({ ring: i + 1, ...r, hkl: r.hkl ? formatHkl(r.hkl) : null }));
 }
+
 
 /** `annula analyze <image>`: centre, distortion, rings, d-spacings and candidates of one pattern. */
 export function registerAnalyze(program: Command, io: CliIo): void {

@@ -40,7 +40,7 @@ describe('annula analyze', () => {
     const first = await runCli('analyze', 'samples/tin-coating', '--out', dir, '--quiet');
     expect(first.code).toBe(0);
     const csv = readFileSync(join(dir, 'pattern.rings.csv'), 'utf8').trim().split('\n');
-    expect(csv[0]).toMatch(/^ring,radiusPx,radiusSigmaPx,dA,dSigmaA/);
+    expect(csv[0]).toMatch(/^ring,radiusPx,radiusSigmaPx,radiusBoundPx,dA,dSigmaA,fwhmPx/);
     expect(csv.length).toBeGreaterThanOrEqual(5);
     expect(JSON.parse(readFileSync(join(dir, 'pattern.analysis.json'), 'utf8')).candidates[0].phase).toBe('TiN');
     expect(existsSync(join(dir, 'pattern.profile.csv'))).toBe(true);
