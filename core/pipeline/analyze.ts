@@ -153,10 +153,17 @@ export function analyzeInFrame(
   t = now();
   onProgress('d-spacings', 0);
   const ds = ringDSpacings(measured.rings, camera);
+  // The indexer gets d with the radius uncertainty alone: the camera's error is common to every
+  // ring (fully correlated), so it enters once, through calibrationRelativeSigma, not per ring.
+  const dsRadiusOnly = camera.cameraLengthSigmaPx > 0 ? ringDSpacings(measured.rings, { ...camera, cameraLengthSigmaPx: 0 }) : ds;
   onProgress('d-spacings', 1);
 
   onProgress('indexing', 0);
-  const rings: MeasuredRing[] = measured.rings.map((r, i) => ({ dA: ds[i]!.dA, dSigmaA: Math.max(ds[i]!.dSigmaA, 1e-6 * ds[i]!.dA), intensity: Math.max(0, r.intensity) }));
+  const rings: MeasuredRing[] = measured.rings.map((r, i) => ({
+    dA: ds[i]!.dA,
+    dSigmaA: Math.max(dsRadiusOnly[i]!.dSigmaA, 1e-6 * ds[i]!.dA),
+    intensity: Math.max(0, r.intensity),
+  }));
   const calibrationRelativeSigma = settings.calibrationRelativeSigma ?? camera.cameraLengthSigmaPx / camera.cameraLengthPx;
   const indexing = rings.length >= 2
     ? indexRings(rings, { phases: settings.phases, ...(calibrationRelativeSigma > 0 ? { calibrationRelativeSigma } : {}) })
