@@ -15,7 +15,6 @@
  * An image with no rings gives status 'no-rings' with its profile and a
  * reason among the warnings, never a made-up answer.
  */
-import { indexRings, type MeasuredRing } from '../indexing';
 import { judgeIndexing } from '../indexing/indexing-conclusion';
 import type { OpenCv } from '../image/opencv-handle';
 import type { Raster } from '../image/raster';
@@ -28,7 +27,7 @@ import { refineFrame, type RefinedRing } from '../rings/refine-frame';
 import type { AnalysisResult, AnalyzedRing } from './analysis-result';
 import type { AnalysisProgress, AnalysisSettings } from './analysis-settings';
 import { buildPatternMask, type PatternMaskSummary } from './pattern-mask';
-import { ringDSpacings } from './ring-d-spacings';
+import { indexRingRadii, NOMINAL_CAMERA_WARNING } from './index-ring-radii';
 
 /** Wall clock in ms: the platform's high-resolution clock where there is one (Node, browsers, workers), else Date. */
 const clock = (globalThis as { performance?: { now(): number } }).performance;
@@ -136,11 +135,7 @@ export function analyzeInFrame(
   const camera = settings.camera;
   const warnings = [...geometry.warnings];
   if (maskSummary.saturatedPixels > 0) warnings.push(`${maskSummary.saturatedPixels} saturated pixels were excluded`);
-  if (!camera.calibrated) {
-    warnings.push(
-      'the camera length is nominal, not calibrated: every d and lattice constant carries its error (nominal camera lengths are often off by a few percent, common practice); calibrate on a standard film for accurate values',
-    );
-  }
+  if (!camera.calibrated) warnings.push(NOMINAL_CAMERA_WARNING);
 
   let t = now();
   onProgress('profile', 0);
@@ -152,28 +147,11 @@ export function analyzeInFrame(
 
   t = now();
   onProgress('d-spacings', 0);
-  const ds = ringDSpacings(measured.rings, camera);
-  // The indexer gets d with the radius uncertainty alone: the camera's error is common to every
-  // ring (fully correlated), so it enters once, through calibrationRelativeSigma, not per ring.
-  const dsRadiusOnly = camera.cameraLengthSigmaPx > 0 ? ringDSpacings(measured.rings, { ...camera, cameraLengthSigmaPx: 0 }) : ds;
-  onProgress('d-spacings', 1);
-
   onProgress('indexing', 0);
-  const rings: MeasuredRing[] = measured.rings.map((r, i) => ({
-    dA: ds[i]!.dA,
-    dSigmaA: Math.max(dsRadiusOnly[i]!.dSigmaA, 1e-6 * ds[i]!.dA),
-    intensity: Math.max(0, r.intensity),
-  }));
-  const calibrationRelativeSigma = settings.calibrationRelativeSigma ?? camera.cameraLengthSigmaPx / camera.cameraLengthPx;
-  const indexing = rings.length >= 2
-    ? indexRings(rings, { phases: settings.phases, ...(calibrationRelativeSigma > 0 ? { calibrationRelativeSigma } : {}) })
-    : { candidates: [], ambiguities: [], secondPhase: [], conclusion: judgeIndexing(rings, null), notes: [rings.length === 1 ? 'only one ring was measured: no lattice can be indexed from it' : ''].filter(Boolean) };
+  const { dSpacings: ds, indexing, assignment } = indexRingRadii(measured.rings, camera, settings.phases, settings.calibrationRelativeSigma);
+  onProgress('d-spacings', 1);
   onProgress('indexing', 1);
   timingsMs.indexing = now() - t;
-
-  const best = indexing.candidates[0];
-  const assigned = new Map<number, { hkl: AnalyzedRing['hkl'] }>();
-  if (best && indexing.conclusion.conclusive) for (const a of best.assignments) assigned.set(a.ringIndex, { hkl: a.hkl });
 
   const analyzedRings: AnalyzedRing[] = measured.rings.map((r, i) => ({
     radiusPx: r.radiusPx,
@@ -187,8 +165,8 @@ export function analyzeInFrame(
     continuity: r.continuity,
     spottiness: r.spottiness,
     textureAmplitude: r.textureAmplitude,
-    hkl: assigned.get(i)?.hkl ?? null,
-    phase: assigned.has(i) ? best!.phase : null,
+    hkl: assignment[i]?.hkl ?? null,
+    phase: assignment[i]?.phase ?? null,
   }));
 
   const s = geometry.sigma;

@@ -4,3 +4,5 @@ export * from './analysis-result';
 export * from './pattern-mask';
 export * from './ring-d-spacings';
 export * from './analyze';
+export * from './index-ring-radii';
+export * from './reindex-analysis';

@@ -4,7 +4,6 @@
  * uncertainties propagated (core/physics/d-spacing-uncertainty.ts).
  */
 import { dSpacingWithUncertainty, electronWavelengthA } from '../physics';
-import type { RingMeasurement } from '../rings/measured-ring-profile';
 import type { AnalysisCamera } from './analysis-settings';
 
 export interface RingDSpacing {
@@ -13,7 +12,7 @@ export interface RingDSpacing {
 }
 
 /** d and its standard uncertainty for each ring, in the rings' order. */
-export function ringDSpacings(rings: readonly RingMeasurement[], camera: AnalysisCamera): RingDSpacing[] {
+export function ringDSpacings(rings: ReadonlyArray<{ radiusPx: number; radiusSigmaPx: number }>, camera: AnalysisCamera): RingDSpacing[] {
   const geometry = { wavelengthA: electronWavelengthA(camera.voltageV), cameraLengthPx: camera.cameraLengthPx };
   return rings.map((r) => {
     const e = dSpacingWithUncertainty(r.radiusPx, r.radiusSigmaPx, geometry, {
