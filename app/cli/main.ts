@@ -7,6 +7,7 @@ import { QuantityError } from '../common/quantity';
 import { processIo, type CliIo } from './cli-io';
 import { EXIT, InputError, NothingFoundError, UsageError } from './exit-codes';
 import { registerAnalyze } from './commands/analyze';
+import { registerCalibrations } from './commands/calibrations';
 import { registerIndex } from './commands/index-rings';
 import { registerPhases } from './commands/phases';
 import { registerRings } from './commands/rings';
@@ -42,6 +43,7 @@ function buildProgram(io: CliIo): Command {
   registerIndex(program, io);
   registerAnalyze(program, io);
   registerSimulate(program, io);
+  registerCalibrations(program, io);
   for (const sub of program.commands) {
     sub.exitOverride().showHelpAfterError(`(run annula ${sub.name()} --help for usage)`);
     sub.configureOutput(program.configureOutput());
