@@ -287,7 +287,9 @@ function segmentRows(index: number, across: number, segmentHeight: number, heigh
   return Math.min(segmentHeight, height - row);
 }
 
-function makeView(buf: Uint8Array, bits: number, format: 1 | 2 | 3, count: number): ArrayLike<number> {
+type SampleView = Float32Array | Float64Array | Int8Array | Uint8Array | Int16Array | Uint16Array | Int32Array | Uint32Array;
+
+function makeView(buf: Uint8Array, bits: number, format: 1 | 2 | 3, count: number): SampleView {
   const b = buf.buffer;
   const o = buf.byteOffset;
   if (format === 3) return bits === 32 ? new Float32Array(b, o, count) : new Float64Array(b, o, count);
@@ -437,7 +439,8 @@ export function decodeTiff(bytes: Uint8Array, options: ResolvedImageDecodeOption
         } else if (layout.whiteIsZero) {
           for (let c = 0, s = at; c < cols; c++, s += segmentSamples) out[dst + c] = maxValue - v[s]!;
         } else if (segmentSamples === 1) {
-          for (let c = 0; c < cols; c++) out[dst + c] = v[at + c]!;
+          // One typed-array copy per row (each sample converted to float32 as an assignment would).
+          out.set(v.subarray(at, at + cols), dst);
         } else {
           for (let c = 0, s = at; c < cols; c++, s += segmentSamples) out[dst + c] = v[s]!;
         }

@@ -24,6 +24,7 @@ import { measureRings } from '../rings/measure-rings';
 import type { PatternFrame } from '../rings/pattern-frame';
 import type { PixelMask } from '../rings/pixel-mask';
 import { refineFrame, type RefinedRing } from '../rings/refine-frame';
+import type { RowBandRunner } from '../rings/row-bands';
 import type { AnalysisResult, AnalyzedRing } from './analysis-result';
 import type { AnalysisProgress, AnalysisSettings } from './analysis-settings';
 import { buildPatternMask, type PatternMaskSummary } from './pattern-mask';
@@ -44,6 +45,15 @@ function checkSettings(settings: AnalysisSettings): void {
   if (!(c.cameraLengthSigmaPx >= 0)) throw new RangeError(`camera.cameraLengthSigmaPx must be >= 0; got ${c.cameraLengthSigmaPx}`);
 }
 
+/**
+ * How the pipeline may run its pixel passes: not a setting (it changes no result,
+ * only the time) and never part of the result.
+ */
+export interface AnalysisRuntime {
+  /** Runs the pixel passes on bands of rows, e.g. a surface's worker pool (default: this thread). */
+  rowBands?: RowBandRunner;
+}
+
 /** What the geometry stage hands to the later stages. */
 export interface PatternGeometry {
   frame: PatternFrame;
@@ -56,9 +66,10 @@ export interface PatternGeometry {
  * Analyses `raster` with the camera and phases of `settings`.
  * @param cv the OpenCV handle loaded by the surface (Node or Web Worker build)
  * @param onProgress called at the start and end of each stage with a fraction in [0, 1]
+ * @param runtime threads for the pixel passes (default: none, all on this thread)
  * @throws RangeError for malformed settings (never for data without rings)
  */
-export function analyze(raster: Raster, settings: AnalysisSettings, onProgress: AnalysisProgress = () => {}, cv: OpenCv): AnalysisResult {
+export function analyze(raster: Raster, settings: AnalysisSettings, onProgress: AnalysisProgress = () => {}, cv: OpenCv, runtime: AnalysisRuntime = {}): AnalysisResult {
   checkSettings(settings);
   const timingsMs: Record<string, number> = {};
   let t = now();
@@ -68,6 +79,7 @@ export function analyze(raster: Raster, settings: AnalysisSettings, onProgress: 
     ...(settings.saturationLevel !== undefined ? { saturationLevel: settings.saturationLevel } : {}),
     ...(settings.detectBeamStop !== undefined ? { detectBeamStop: settings.detectBeamStop } : {}),
     ...(settings.maskPolygons ? { polygons: settings.maskPolygons } : {}),
+    ...(runtime.rowBands ? { rowBands: runtime.rowBands } : {}),
   });
   onProgress('masks', 1);
   timingsMs.masks = now() - t;
@@ -86,12 +98,12 @@ export function analyze(raster: Raster, settings: AnalysisSettings, onProgress: 
     const frame = refined.frame;
     const warnings = [...refined.warnings, `no pattern geometry: ${refined.reason}`];
     if (frame) {
-      const inFrame = analyzeInFrame(raster, masks.mask, { frame, sigma: { centerXPx: Number.NaN, centerYPx: Number.NaN, axisRatio: Number.NaN, angleDeg: Number.NaN }, rings: [], warnings }, settings, masks.summary, onProgress);
+      const inFrame = analyzeInFrame(raster, masks.mask, { frame, sigma: { centerXPx: Number.NaN, centerYPx: Number.NaN, axisRatio: Number.NaN, angleDeg: Number.NaN }, rings: [], warnings }, settings, masks.summary, onProgress, runtime);
       return { ...inFrame, status: inFrame.rings.length === 0 ? 'no-rings' : 'no-geometry', timingsMs: { ...timingsMs, ...inFrame.timingsMs } };
     }
     return emptyResult(raster, settings, masks.summary, warnings, timingsMs);
   }
-  const result = analyzeInFrame(raster, masks.mask, { frame: refined.frame, sigma: refined.sigma, rings: refined.rings, warnings: refined.warnings }, settings, masks.summary, onProgress);
+  const result = analyzeInFrame(raster, masks.mask, { frame: refined.frame, sigma: refined.sigma, rings: refined.rings, warnings: refined.warnings }, settings, masks.summary, onProgress, runtime);
   return { ...result, timingsMs: { ...timingsMs, ...result.timingsMs } };
 }
 
@@ -129,6 +141,7 @@ export function analyzeInFrame(
   settings: AnalysisSettings,
   maskSummary: PatternMaskSummary,
   onProgress: AnalysisProgress = () => {},
+  runtime: AnalysisRuntime = {},
 ): AnalysisResult {
   checkSettings(settings);
   const timingsMs: Record<string, number> = {};
@@ -139,7 +152,7 @@ export function analyzeInFrame(
 
   let t = now();
   onProgress('profile', 0);
-  const measured = measureRings(raster, mask, geometry.frame);
+  const measured = measureRings(raster, mask, geometry.frame, runtime.rowBands ? { rowBands: runtime.rowBands } : {});
   onProgress('profile', 1);
   timingsMs.profile = now() - t;
   warnings.push(...measured.warnings);

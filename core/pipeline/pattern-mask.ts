@@ -10,6 +10,7 @@ import { maskHotPixels } from '../rings/mask-hot-pixels';
 import { maskPolygons, type MaskPolygon } from '../rings/mask-polygons';
 import { maskSaturated } from '../rings/mask-saturated';
 import type { PixelMask } from '../rings/pixel-mask';
+import type { RowBandRunner } from '../rings/row-bands';
 import type { AnalysisImageFormat } from './analysis-settings';
 
 export interface PatternMaskSummary {
@@ -34,6 +35,8 @@ export interface PatternMaskOptions {
   saturationLevel?: number;
   detectBeamStop?: boolean;
   polygons?: readonly MaskPolygon[];
+  /** Runs the pixel passes on bands of rows, e.g. a surface's worker pool (default: this thread). */
+  rowBands?: RowBandRunner;
 }
 
 /** Builds the combined mask. Data that show no stop or no hot pixel simply mark none. */
@@ -43,7 +46,7 @@ export function buildPatternMask(raster: Raster, cv: OpenCv, options: PatternMas
     sampleFormat: options.image.sampleFormat,
     ...(options.saturationLevel !== undefined ? { saturationLevel: options.saturationLevel } : {}),
   });
-  const hot = maskHotPixels(raster, saturated.mask);
+  const hot = maskHotPixels(raster, saturated.mask, {}, options.rowBands);
   const parts = [saturated.mask, hot.mask];
   let beamStopFound = false;
   let beamStopNote: string | null = 'beam-stop detection was turned off';

@@ -9,22 +9,22 @@
  *       = kxx dx^2 + 2 kxy dx dy + kyy dy^2,
  *   kxx = cos^2 a / q + q sin^2 a,  kxy = sin a cos a (1/q - q),  kyy = sin^2 a / q + q cos^2 a.
  * Integrations evaluate pixel and sub-pixel radii exactly from this form
- * (float64); the per-pixel table below serves to skip, at the cost of one
- * load, the pixels that cannot reach a radial range or band.
+ * (float64). An IntegrationFrame holds the coefficients and the radius range
+ * of the image (found row by row in O(height), without visiting every pixel);
+ * an IntegrationGeometry adds the per-pixel table of corrected radii, for
+ * callers that want it (the integrations themselves no longer read it: they
+ * compute each radius where they need it, which lets them work on any band of
+ * rows without a shared table).
  */
 
 import { frameTransform, validateFrame, type FrameTransform, type PatternFrame } from './pattern-frame';
 
-export interface IntegrationGeometry {
+/** The frame of one image size: plain data, small, the same for every band of rows. */
+export interface IntegrationFrame {
   width: number;
   height: number;
   frame: PatternFrame;
   transform: FrameTransform;
-  /**
-   * Corrected radius of each pixel centre, px, at [j * width + i]. Float32 (good to
-   * 2^-24 relative, 0.0002 px at R = 3000 px): used to skip pixels, with a margin.
-   */
-  radiusPx: Float32Array;
   /** Largest pixel-centre radius in the image, px. */
   maxRadiusPx: number;
   /** Smallest pixel-centre radius in the image, px (> 0 when the centre lies outside the image). */
@@ -41,6 +41,86 @@ export interface IntegrationGeometry {
   maxRadialGradient: number;
 }
 
+/** An IntegrationFrame with the corrected radius of every pixel centre. */
+export interface IntegrationGeometry extends IntegrationFrame {
+  /**
+   * Corrected radius of each pixel centre, px, at [j * width + i]. Float32 (good to
+   * 2^-24 relative, 0.0002 px at R = 3000 px).
+   */
+  radiusPx: Float32Array;
+}
+
+function checkSize(width: number, height: number): void {
+  if (!Number.isInteger(width) || width < 1) throw new RangeError(`width must be an integer >= 1; got ${width}`);
+  if (!Number.isInteger(height) || height < 1) throw new RangeError(`height must be an integer >= 1; got ${height}`);
+}
+
+function quadraticForm(t: FrameTransform): { kxx: number; kxy: number; kyy: number } {
+  return {
+    kxx: (t.cos * t.cos) * t.invQ + t.q * t.sin * t.sin,
+    kxy: t.sin * t.cos * (t.invQ - t.q),
+    kyy: (t.sin * t.sin) * t.invQ + t.q * t.cos * t.cos,
+  };
+}
+
+/**
+ * The frame of a `width` x `height` image for integration: the quadratic form and
+ * the smallest and largest pixel-centre radius, without a per-pixel table.
+ *
+ * Along row j, R^2 = kxx dx^2 + (2 kxy dy) dx + kyy dy^2 is a convex quadratic in
+ * dx (kxx > 0), so the row's largest value is at one of its two end pixels and
+ * its smallest at one of the pixels next to the vertex dx = -kxy dy / kxx
+ * (clamped to the row); those candidates are evaluated with exactly the
+ * expression of the per-pixel table, so minRadiusPx and maxRadiusPx equal the
+ * extremes of the table computed in float64 (checked in the unit tests).
+ * @throws RangeError for a non-integer or non-positive size, or an invalid frame (see validateFrame)
+ */
+export function integrationFrame(width: number, height: number, frame: PatternFrame): IntegrationFrame {
+  checkSize(width, height);
+  validateFrame(frame);
+  const t = frameTransform(frame);
+  const { kxx, kxy, kyy } = quadraticForm(t);
+  let maxR = 0;
+  let minR = Infinity;
+  for (let j = 0; j < height; j++) {
+    const dy = j - t.cy;
+    const cyy = kyy * dy * dy;
+    const bxy = 2 * kxy * dy;
+    const vertex = Math.round(t.cx - (kxy * dy) / kxx);
+    const first = Math.max(0, Math.min(width - 1, vertex - 2));
+    const last = Math.max(0, Math.min(width - 1, vertex + 2));
+    for (let i = first; i <= last; i++) {
+      const dx = i - t.cx;
+      const r = Math.sqrt(dx * (kxx * dx + bxy) + cyy);
+      if (r < minR) minR = r;
+      if (r > maxR) maxR = r;
+    }
+    for (const i of [0, width - 1]) {
+      const dx = i - t.cx;
+      const r = Math.sqrt(dx * (kxx * dx + bxy) + cyy);
+      if (r > maxR) maxR = r;
+      if (r < minR) minR = r;
+    }
+  }
+  return { width, height, frame: { ...frame }, transform: t, maxRadiusPx: maxR, minRadiusPx: minR, kxx, kxy, kyy, maxRadialGradient: t.sqrtQ };
+}
+
+/** The IntegrationFrame part of a geometry (without its per-pixel table: small enough to send to a worker). */
+export function integrationFrameOf(g: IntegrationFrame): IntegrationFrame {
+  return {
+    width: g.width,
+    height: g.height,
+    frame: { ...g.frame },
+    transform: { ...g.transform },
+    maxRadiusPx: g.maxRadiusPx,
+    minRadiusPx: g.minRadiusPx,
+    kxx: g.kxx,
+    kxy: g.kxy,
+    kyy: g.kyy,
+    maxRadialGradient: g.maxRadialGradient,
+  };
+}
+
 /**
  * Per-pixel corrected radii of a `width` x `height` image in `frame`.
  * @param width image width, pixels (integer >= 1)
@@ -48,13 +128,10 @@ export interface IntegrationGeometry {
  * @throws RangeError for a non-integer or non-positive size, or an invalid frame (see validateFrame)
  */
 export function prepareIntegrationGeometry(width: number, height: number, frame: PatternFrame): IntegrationGeometry {
-  if (!Number.isInteger(width) || width < 1) throw new RangeError(`width must be an integer >= 1; got ${width}`);
-  if (!Number.isInteger(height) || height < 1) throw new RangeError(`height must be an integer >= 1; got ${height}`);
+  checkSize(width, height);
   validateFrame(frame);
   const t = frameTransform(frame);
-  const kxx = (t.cos * t.cos) * t.invQ + t.q * t.sin * t.sin;
-  const kxy = t.sin * t.cos * (t.invQ - t.q);
-  const kyy = (t.sin * t.sin) * t.invQ + t.q * t.cos * t.cos;
+  const { kxx, kxy, kyy } = quadraticForm(t);
   const radiusPx = new Float32Array(width * height);
   let maxR = 0;
   let minR = Infinity;
@@ -107,7 +184,7 @@ export function validateSubdivision(subdivision: number): void {
 export function validateIntegrationInputs(
   raster: { width: number; height: number; data: ArrayLike<number> },
   mask: { width: number; height: number; excluded: ArrayLike<number> } | null,
-  geometry: IntegrationGeometry,
+  geometry: IntegrationFrame,
 ): void {
   if (raster.width !== geometry.width || raster.height !== geometry.height) {
     throw new RangeError(

@@ -26,6 +26,7 @@ import type { Raster } from '../image/raster';
 import type { PixelMask } from './pixel-mask';
 import { estimatePixelNoise, type PixelNoiseModel } from './detector-noise-model';
 import { checkMaskSize } from './mask-combine';
+import { runRowBands, type RowBand, type RowBandImages, type RowBandRunner } from './row-bands';
 
 export interface HotPixelOptions {
   /** Threshold in noise standard deviations above the second-highest neighbour (plus the local structure), > 0; default 6. */
@@ -52,10 +53,11 @@ const OFFSETS: Array<[number, number]> = [[-1, -1], [0, -1], [1, -1], [-1, 0], [
 /**
  * @param raster the image
  * @param mask pixels already excluded (e.g. saturated): neither tested nor used as neighbours; optional
+ * @param runner runs the first pass on bands of rows (e.g. a worker pool); default this thread
  * @returns a mask of the hot pixels only (combine it with the others)
  * @throws RangeError for k <= 0, a negative minimumNoise or a mask of another size
  */
-export function maskHotPixels(raster: Raster, mask?: PixelMask, options: HotPixelOptions = {}): HotPixelMask {
+export function maskHotPixels(raster: Raster, mask?: PixelMask, options: HotPixelOptions = {}, runner?: RowBandRunner): HotPixelMask {
   const { width, height, data } = raster;
   if (mask) checkMaskSize(mask, width, height);
   const k = options.k ?? 6;
@@ -78,56 +80,14 @@ export function maskHotPixels(raster: Raster, mask?: PixelMask, options: HotPixe
   const skip = mask?.excluded;
   const { readVariance, varianceSlope, minimumVariance } = noise;
   const floorVar = Math.max(minimumVariance, minVar);
-  // Second-highest of the usable neighbours against k sigma at that level plus the local structure.
-  const nb = new Float64Array(8);
-  const test = (i: number, j: number): boolean => {
-    let count = 0;
-    for (let dj = -1; dj <= 1; dj++) {
-      const jj = j + dj;
-      if (jj < 0 || jj >= height) continue;
-      for (let di = -1; di <= 1; di++) {
-        const ii = i + di;
-        if ((di === 0 && dj === 0) || ii < 0 || ii >= width) continue;
-        const q = jj * width + ii;
-        if (hot[q] || (skip !== undefined && skip[q])) continue;
-        nb[count++] = data[q]!;
-      }
-    }
-    if (count < 2) return false;
-    const sorted = nb.subarray(0, count).sort();
-    const ref = count >= 3 ? sorted[count - 2]! : sorted[count - 1]!;
-    const mid = count % 2 ? sorted[(count - 1) >> 1]! : 0.5 * (sorted[count / 2 - 1]! + sorted[count / 2]!);
-    const variance = Math.max(readVariance + varianceSlope * ref, floorVar);
-    const excess = data[j * width + i]! - ref;
-    return excess > k * Math.sqrt(variance) + Math.max(0, ref - mid);
-  };
+  const hotTest: HotPixelTest = { k, readVariance, varianceSlope, floorVariance: floorVar };
+  // The first pass (no pixel flagged yet) over bands of rows; its lists, in band order, are the
+  // pixels in row-major order.
+  const parts = runRowBands(runner, 'hotPixelCandidates', { raster, mask: mask ?? null }, hotTest, height, hotPixelCandidateRowsPass);
   let candidates: number[] = [];
-  // Fast pass over interior pixels: the value must exceed at least 7 of its 8 neighbours
-  // (masked ones count as exceeded) by k sigma at the lowest level the model allows, a
-  // necessary condition of the test that is cheap to check.
-  const kFloor = k * Math.sqrt(floorVar);
-  for (let j = 0; j < height; j++) {
-    const interiorRow = j > 0 && j < height - 1;
-    for (let i = 0; i < width; i++) {
-      const p = j * width + i;
-      if (skip !== undefined && skip[p]) continue;
-      if (interiorRow && i > 0 && i < width - 1) {
-        const v = data[p]! - kFloor;
-        let above = 0;
-        if (v > data[p - 1]! || (skip !== undefined && skip[p - 1] === 1)) above++;
-        if (v > data[p + 1]! || (skip !== undefined && skip[p + 1] === 1)) above++;
-        if (v > data[p - width]! || (skip !== undefined && skip[p - width] === 1)) above++;
-        if (v > data[p + width]! || (skip !== undefined && skip[p + width] === 1)) above++;
-        if (above < 3) continue;
-        if (v > data[p - width - 1]! || (skip !== undefined && skip[p - width - 1] === 1)) above++;
-        if (v > data[p - width + 1]! || (skip !== undefined && skip[p - width + 1] === 1)) above++;
-        if (v > data[p + width - 1]! || (skip !== undefined && skip[p + width - 1] === 1)) above++;
-        if (v > data[p + width + 1]! || (skip !== undefined && skip[p + width + 1] === 1)) above++;
-        if (above < 7) continue;
-      }
-      if (test(i, j)) candidates.push(p);
-    }
-  }
+  for (const part of parts) for (let c = 0; c < part.length; c++) candidates.push(part[c]!);
+  const nb = new Float64Array(8);
+  const test = (i: number, j: number): boolean => passesHotPixelTest(data, width, height, hot, skip, i, j, hotTest, nb);
   let hotCount = 0;
   for (let pass = 0; pass < 3 && candidates.length > 0; pass++) {
     for (const p of candidates) if (!hot[p]) { hot[p] = 1; hotCount++; }
@@ -150,4 +110,110 @@ export function maskHotPixels(raster: Raster, mask?: PixelMask, options: HotPixe
     candidates = next;
   }
   return { mask: { width, height, excluded: hot }, hotCount, k, noise };
+}
+
+/** The numbers of the hot-pixel rule (plain data, the same for every band of rows). */
+export interface HotPixelTest {
+  /** Threshold, noise standard deviations. */
+  k: number;
+  /** Noise model: variance = readVariance + varianceSlope x level, floored at floorVariance. */
+  readVariance: number;
+  varianceSlope: number;
+  floorVariance: number;
+}
+
+/** hotPixelCandidateRows in the form of a row-band pass. */
+export function hotPixelCandidateRowsPass(images: RowBandImages, test: HotPixelTest, band: RowBand): Int32Array {
+  return hotPixelCandidateRows(images.raster, images.mask, test, band.rowStart, band.rowEnd);
+}
+
+/**
+ * The first pass of maskHotPixels over rows [rowStart, rowEnd): the unmasked
+ * pixels that pass the rule with no pixel flagged yet, in row-major order.
+ * Interior pixels first pass a cheap necessary condition: the value must exceed
+ * at least 7 of its 8 neighbours (masked ones count as exceeded) by k sigma at
+ * the lowest level the model allows.
+ */
+export function hotPixelCandidateRows(raster: Raster, mask: PixelMask | null, t: HotPixelTest, rowStart: number, rowEnd: number): Int32Array {
+  const { width, height, data } = raster;
+  const skip = mask ? mask.excluded : undefined;
+  const kFloor = t.k * Math.sqrt(t.floorVariance);
+  const nb = new Float64Array(8);
+  const found: number[] = [];
+  for (let j = rowStart; j < rowEnd; j++) {
+    const interiorRow = j > 0 && j < height - 1;
+    for (let i = 0; i < width; i++) {
+      const p = j * width + i;
+      if (skip !== undefined && skip[p]) continue;
+      if (interiorRow && i > 0 && i < width - 1) {
+        const v = data[p]! - kFloor;
+        let above = 0;
+        if (v > data[p - 1]! || (skip !== undefined && skip[p - 1] === 1)) above++;
+        if (v > data[p + 1]! || (skip !== undefined && skip[p + 1] === 1)) above++;
+        if (above === 0) continue; // at most 2 of the 4 can follow: the test below would fail
+        if (v > data[p - width]! || (skip !== undefined && skip[p - width] === 1)) above++;
+        if (v > data[p + width]! || (skip !== undefined && skip[p + width] === 1)) above++;
+        if (above < 3) continue;
+        if (v > data[p - width - 1]! || (skip !== undefined && skip[p - width - 1] === 1)) above++;
+        if (v > data[p - width + 1]! || (skip !== undefined && skip[p - width + 1] === 1)) above++;
+        if (v > data[p + width - 1]! || (skip !== undefined && skip[p + width - 1] === 1)) above++;
+        if (v > data[p + width + 1]! || (skip !== undefined && skip[p + width + 1] === 1)) above++;
+        if (above < 7) continue;
+      }
+      if (passesHotPixelTest(data, width, height, null, skip, i, j, t, nb)) found.push(p);
+    }
+  }
+  return Int32Array.from(found);
+}
+
+/**
+ * The rule for pixel (i, j): second-highest of its usable neighbours (not
+ * flagged in `hot`, not masked) against k sigma at that level plus the local
+ * structure (second-highest minus median). `nb` is scratch of 8.
+ */
+function passesHotPixelTest(
+  data: Float32Array,
+  width: number,
+  height: number,
+  hot: Uint8Array | null,
+  skip: Uint8Array | undefined,
+  i: number,
+  j: number,
+  t: HotPixelTest,
+  nb: Float64Array,
+): boolean {
+  let count = 0;
+  let nan = false;
+  for (let dj = -1; dj <= 1; dj++) {
+    const jj = j + dj;
+    if (jj < 0 || jj >= height) continue;
+    for (let di = -1; di <= 1; di++) {
+      const ii = i + di;
+      if ((di === 0 && dj === 0) || ii < 0 || ii >= width) continue;
+      const q = jj * width + ii;
+      if ((hot !== null && hot[q]) || (skip !== undefined && skip[q])) continue;
+      const v = data[q]!;
+      if (v !== v) nan = true;
+      nb[count++] = v;
+    }
+  }
+  if (count < 2) return false;
+  if (nan) nb.subarray(0, count).sort(); // NaN last, as the typed-array sort puts it
+  else {
+    // Insertion sort of at most 8 numbers (ascending, as the typed-array sort).
+    for (let a = 1; a < count; a++) {
+      const x = nb[a]!;
+      let b = a - 1;
+      while (b >= 0 && nb[b]! > x) {
+        nb[b + 1] = nb[b]!;
+        b--;
+      }
+      nb[b + 1] = x;
+    }
+  }
+  const ref = count >= 3 ? nb[count - 2]! : nb[count - 1]!;
+  const mid = count % 2 ? nb[(count - 1) >> 1]! : 0.5 * (nb[count / 2 - 1]! + nb[count / 2]!);
+  const variance = Math.max(t.readVariance + t.varianceSlope * ref, t.floorVariance);
+  const excess = data[j * width + i]! - ref;
+  return excess > t.k * Math.sqrt(variance) + Math.max(0, ref - mid);
 }

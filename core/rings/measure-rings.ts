@@ -43,7 +43,7 @@ import type { Raster } from '../image/raster';
 import { integrateRadialProfile } from './azimuthal-integration';
 import { integrateAzimuthalTexture, type AzimuthalTexture } from './azimuthal-texture';
 import { snipBackground } from './background-snip';
-import { prepareIntegrationGeometry, validateIntegrationInputs, type AzimuthSector, type IntegrationGeometry } from './integration-geometry';
+import { integrationFrame, validateIntegrationInputs, type AzimuthSector, type IntegrationFrame } from './integration-geometry';
 import type { RingMeasurement } from './measured-ring-profile';
 import type { PatternFrame } from './pattern-frame';
 import { detectPeaks } from './peak-detection';
@@ -55,6 +55,7 @@ import { peakStrippedBackground } from './peak-stripped-background';
 import { profileRadiusShiftPx } from './profile-radius-shift';
 import { radiusPrecisionBoundPx } from './radius-precision-bound';
 import { ringQuality } from './ring-quality';
+import type { RowBandRunner } from './row-bands';
 import { medianOf } from './sample-median';
 
 export interface MeasureRingsOptions {
@@ -68,8 +69,10 @@ export interface MeasureRingsOptions {
   subdivision?: number;
   /** Restrict the profile to an azimuthal sector (default: all azimuths). */
   sector?: AzimuthSector;
-  /** Per-pixel radii prepared for this image size and frame, to reuse (default: prepared here). */
-  geometry?: IntegrationGeometry;
+  /** The integration frame of this image size and frame, to reuse (integrationFrame or prepareIntegrationGeometry; default: made here). */
+  geometry?: IntegrationFrame;
+  /** Runs the pixel passes (profile, texture) on bands of rows, e.g. on a worker pool (default: this thread). */
+  rowBands?: RowBandRunner;
   /** Counts per unit of pixel value, when known (default: estimated from the profile). */
   countsPerValue?: number;
   /** Read noise of a pixel in value units, with countsPerValue (default 0). */
@@ -135,7 +138,7 @@ export interface RingMeasurementResult {
  * @throws RangeError for sizes that do not match or options out of range (never for data without rings)
  */
 export function measureRings(raster: Raster, mask: PixelMask | null, frame: PatternFrame, options: MeasureRingsOptions = {}): RingMeasurementResult {
-  const geometry = options.geometry ?? prepareIntegrationGeometry(raster.width, raster.height, frame);
+  const geometry = options.geometry ?? integrationFrame(raster.width, raster.height, frame);
   if (options.geometry) {
     const f = options.geometry.frame;
     if (f.centerXPx !== frame.centerXPx || f.centerYPx !== frame.centerYPx || f.axisRatio !== frame.axisRatio || f.angleDeg !== frame.angleDeg) {
@@ -167,7 +170,7 @@ export function measureRings(raster: Raster, mask: PixelMask | null, frame: Patt
     binWidthPx: w,
     subdivision,
     sector: options.sector,
-  });
+  }, options.rowBands);
   const n = profile.mean.length;
   const binVarianceRatio = new Float64Array(n);
   for (let k = 0; k < n; k++) {
@@ -276,7 +279,7 @@ export function measureRings(raster: Raster, mask: PixelMask | null, frame: Patt
     azimuthBinCount: options.azimuthBinCount,
     subdivision,
     references: [reference(profile.mean), reference(background)],
-  });
+  }, options.rowBands);
   const mCells = texture.azimuthBinCount;
   const rings: RingMeasurement[] = good.map((fit, i) => {
     const band = bands[i]!;

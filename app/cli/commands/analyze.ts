@@ -7,6 +7,7 @@ import { analyze, type AnalysisResult, type AnalysisStage } from '../../../core/
 import { parseMaskPolygons, type MaskPolygon } from '../../../core/rings';
 import { parseRelative } from '../../common/quantity';
 import { loadOpenCv } from '../../node/load-opencv';
+import { processRowBandPool } from '../../node/row-band-pool';
 import { addCameraOptions, readCameraFlags, type CameraFlags } from '../camera-options';
 import { printCandidates, printCaution } from '../candidate-report';
 import { printJson, type CliIo } from '../cli-io';
@@ -159,6 +160,9 @@ export function registerAnalyze(program: Command, io: CliIo): void {
       const outputs = opts.out ? ['analysis.json', 'rings.csv', 'profile.csv'].map((suffix) => join(opts.out!, `${stem}.${suffix}`)) : [];
       if (opts.out && !opts.force) await refuseExisting(outputs);
 
+      // Threads for the pixel passes: they boot while the image is read (a pass that finds them
+      // not ready yet runs here; the results never depend on it).
+      const pool = processRowBandPool();
       const image = await readImageArgument(imagePath, page);
       const described = camera.described;
       const source =
@@ -166,7 +170,7 @@ export function registerAnalyze(program: Command, io: CliIo): void {
           ? `nominal: camera length ${described.cameraLengthM} m, pixel ${described.pixelSizeM * 1e6} µm`
           : `nominal: reciprocal scale ${described && 'scalePerNmPerPx' in described ? described.scalePerNmPerPx : '?'} /nm per px`;
       const result = analyze(
-        image.raster,
+        pool.share(image.raster),
         {
           camera: { voltageV: camera.voltageV, cameraLengthPx, cameraLengthSigmaPx: relSigma * cameraLengthPx, source, calibrated: false },
           image: { bitsPerSample: image.info.bitsPerSample, sampleFormat: image.info.sampleFormat },
@@ -178,6 +182,7 @@ export function registerAnalyze(program: Command, io: CliIo): void {
         },
         stageReporter(io, opts.quiet ?? false),
         loadOpenCv(),
+        { rowBands: pool },
       );
       // The documented key order: image (with the file's path and fingerprint) first, then the rest as analyze returns it.
       const { image: imageSummary, ...rest } = result;
