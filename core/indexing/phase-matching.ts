@@ -15,6 +15,23 @@
  * Score (nats; the best trial of each phase is kept):
  *   position   ring-pattern-evidence.ts with the phase's lines, the same
  *              measure lattice-only candidates get, so the two compare;
+ *              with measured intensities, each line is weighted by its odds
+ *              of showing in this pattern, w = 1 / (1 + (I_lim / I)^k), I its
+ *              relativeIntensity, I_lim = 10 I_min / I_max (0-100 scale) a
+ *              detection limit put a decade below the weakest measured ring
+ *              (conservative: the weakest ring found is not the faintest the
+ *              pattern could show), k = 1.702 / ln 2: the logistic
+ *              approximation of Phi(ln(I / I_lim) / ln 2) (the normal CDF as
+ *              logistic(1.702 x), common practice), with the factor-2
+ *              intensity sigma used below. Lines down to the weakest ring
+ *              seen weigh over 0.99, lines a decade below the limit 0.4 %:
+ *              rings the pattern could not show do not count as predicted
+ *              positions, and phases with the same observable lines (Au and
+ *              Ag) score their positions alike. (A fluorite's all-even rings
+ *              with h + k + l = 4n + 2, kinematically 2e-4 to 2e-2 of its
+ *              strongest, otherwise ranked it below a diamond-type phase that
+ *              needs a strain of 0.6 % to fit the same rings.) Without
+ *              intensities every line weighs 1;
  *   strain     the phase predicts a, a bare lattice does not. With a
  *              log-uniform prior for a free lattice edge over 2-20 Å and a
  *              Gaussian prior of width tau for the strain of a known phase,
@@ -98,6 +115,9 @@ const LN_FREE_EDGE_RANGE = Math.log(Math.log(10));
 /** Intensity agreement: a factor of 2 is one sigma in ln I; R spans three decades. */
 const LN_INTENSITY_SIGMA = Math.LN2;
 const LN_INTENSITY_RANGE = Math.log(1000);
+/** The lines' detection weights: exponent 1.702 / ln 2, limit a decade below the weakest measured ring (see the header). */
+const DETECTION_WEIGHT_EXPONENT = 1.702 / Math.LN2;
+const DETECTION_LIMIT_BELOW_WEAKEST = 10;
 /** Smallest d predictRings accepts, Å. */
 const PREDICT_D_MIN_A = 0.25;
 const MAX_CYCLES = 20;
@@ -349,14 +369,34 @@ interface TrialScore {
   total: number;
 }
 
+/**
+ * Weight of each line in the position term: its odds of showing in a pattern whose
+ * weakest measured ring is 100 I_min / I_max (rings of positive intensity; the limit
+ * I_lim a decade below it), 1 / (1 + (I_lim / I)^k) (see the header); undefined
+ * (every line 1) without measured intensities.
+ */
+function lineDetectionWeights(lines: readonly Line[], rings: readonly PreparedRing[], withIntensities: boolean): number[] | undefined {
+  if (!withIntensities) return undefined;
+  let min = Infinity;
+  let max = 0;
+  for (const r of rings) {
+    const v = r.intensity ?? 0;
+    if (v > 0) { min = Math.min(min, v); max = Math.max(max, v); }
+  }
+  if (!(max > 0)) return undefined;
+  const limit = (100 * min) / max / DETECTION_LIMIT_BELOW_WEAKEST;
+  return lines.map((l) => 1 / (1 + (limit / Math.max(l.relativeIntensity, 1e-12)) ** DETECTION_WEIGHT_EXPONENT));
+}
+
 /** The three score parts of a refined trial (see the header). */
-function scoreTrial(lines: readonly Line[], trial: Trial, rings: readonly PreparedRing[], s: Settings, withIntensities: boolean): TrialScore {
+function scoreTrial(lines: readonly Line[], trial: Trial, rings: readonly PreparedRing[], s: Settings, withIntensities: boolean, lineWeights: readonly number[] | undefined): TrialScore {
   const { lengthA: scale, lengthSigmaA: scaleFitSigma } = lengthFromInverseSquare(trial.x, trial.xSigma);
   const { qLowPerA2, qHighPerA2 } = measuredQRange(rings, s.k);
   const position = ringPatternEvidence(
     rings.map((r) => ({ qPerA2: r.qPerA2, qSigmaPerA2: r.qSigmaEffPerA2 })),
     lines.map((l) => l.qRefPerA2 * trial.x),
     s.eps,
+    lineWeights,
   );
   const strain = strainTerm(scale - 1, scaleFitSigma, s);
   const intensity = s.intensityWeight * intensityTerm(trial, lines, qLowPerA2, qHighPerA2, withIntensities);
@@ -457,6 +497,7 @@ function matchOnePhase(phase: Phase, rings: readonly PreparedRing[], s: Settings
       }
     }
   }
+  const lineWeights = lineDetectionWeights(lines, rings, withIntensities);
   let best: { trial: Trial; score: TrialScore } | null = null;
   const seen = new Set<string>();
   for (const t of trials) {
@@ -465,7 +506,7 @@ function matchOnePhase(phase: Phase, rings: readonly PreparedRing[], s: Settings
     const key = trial.accepted.map((a) => `${a.ring.index}:${a.line.qRefPerA2}`).join(',');
     if (seen.has(key)) continue;
     seen.add(key);
-    const score = scoreTrial(lines, trial, rings, s, withIntensities);
+    const score = scoreTrial(lines, trial, rings, s, withIntensities, lineWeights);
     if (!best || score.total > best.score.total) best = { trial, score };
   }
   return best ? buildMatch(phase, bravaisSymbol(phase.spaceGroup), lines, best.trial, best.score, rings, s) : null;

@@ -15,7 +15,17 @@
  *     next to bright scattering (contrast near 1); a corner of the detector that is
  *     merely far from the pattern fades gradually and fails. Of the regions that
  *     pass, the one nearest centreHint (when given) or else the largest is kept.
- *  4. Holes inside it are filled, it is closed with a 5 x 5 ellipse, brought back
+ *  4. It grows (8-connected) into pixels below D + leakFraction (L - D) where the
+ *     local level L, the 75th percentile of the 16 x 16 block medians within 3
+ *     blocks (localLevels), exceeds B. A thin stop passes a few per cent of what
+ *     falls on it; over the strong diffuse background near the centre that reads
+ *     above T (brighter than the image's dim outer parts) yet far below its
+ *     surroundings, and only the stop's outer reaches would pass step 2.
+ *     (In simulated patterns with a 2 % stop, or with 0.2 % over a low-dose
+ *     exposure, up to 40 % of the covered pixels were left unmasked without it.)
+ *     It grows only from the chosen region, so valleys between rings (dark against
+ *     a local level too) never start one.
+ *  5. Holes inside it are filled, it is closed with a 5 x 5 ellipse, brought back
  *     to full resolution (each coarse pixel covers its f x f block), and dilated by
  *     marginPx plus the coarse blur (ceil(1.5 f) px), rounded up to whole coarse
  *     pixels, so no pixel of the stop's soft edge survives.
@@ -40,6 +50,12 @@ export interface BeamStopOptions {
   minAreaFraction?: number;
   /** Safety margin added around the region, whole pixels >= 0; default 3. */
   marginPx?: number;
+  /**
+   * A thin stop's largest transmission relative to its surroundings, in [0, 1): the region
+   * grows into connected pixels below D + leakFraction (L - D), L the local level; default 0.12.
+   * 0 turns the growth off.
+   */
+  leakFraction?: number;
 }
 
 export interface BeamStopMask {
@@ -55,6 +71,7 @@ export interface BeamStopMask {
   /** Edge contrast of the chosen region. */
   edgeContrast?: number;
   darkLevel: number;
+  /** T = D + darkFraction (B - D). */
   threshold: number;
 }
 
@@ -72,10 +89,12 @@ export function maskBeamStop(raster: Raster, cv: OpenCv, options: BeamStopOption
   const minEdgeContrast = options.minEdgeContrast ?? 0.6;
   const minAreaFraction = options.minAreaFraction ?? 2e-4;
   const marginPx = options.marginPx ?? 3;
+  const leakFraction = options.leakFraction ?? 0.12;
   if (!(darkFraction > 0 && darkFraction < 1)) throw new RangeError(`darkFraction must be in (0, 1); got ${darkFraction}`);
   if (!(minEdgeContrast > 0 && minEdgeContrast <= 1)) throw new RangeError(`minEdgeContrast must be in (0, 1]; got ${minEdgeContrast}`);
   if (!(minAreaFraction > 0 && minAreaFraction < 1)) throw new RangeError(`minAreaFraction must be in (0, 1); got ${minAreaFraction}`);
   if (!Number.isInteger(marginPx) || marginPx < 0) throw new RangeError(`marginPx must be a non-negative integer; got ${marginPx}`);
+  if (!(leakFraction >= 0 && leakFraction < 1)) throw new RangeError(`leakFraction must be in [0, 1); got ${leakFraction}`);
   const { width, height } = raster;
   const f = Math.max(1, Math.ceil(Math.max(width, height) / MAX_COARSE_PX));
   const cw = Math.ceil(width / f);
@@ -132,10 +151,12 @@ export function maskBeamStop(raster: Raster, cv: OpenCv, options: BeamStopOption
     }
     if (best < 0) return empty('no dark region with a sharp edge: no beam stop in the image (or it is not darker than darkFraction of the way to the median)', darkLevel, threshold);
 
-    // The region, its holes filled: complement components that do not touch the border are holes.
+    // Grown into what a thin stop passes of a bright centre (see the header), then its holes
+    // filled: complement components that do not touch the border are holes.
+    const inRegion = growIntoLeak(s, lab, best, cw, ch, darkLevel, typical, leakFraction);
     const region = track(new cv.Mat(ch, cw, cv.CV_8U));
     const r = region.data as Uint8Array;
-    for (let p = 0; p < lab.length; p++) r[p] = lab[p] === best ? 0 : 1;
+    for (let p = 0; p < lab.length; p++) r[p] = inRegion[p] ? 0 : 1;
     const holeLabels = track(new cv.Mat());
     const holeStats = track(new cv.Mat());
     const holeCents = track(new cv.Mat());
@@ -148,7 +169,7 @@ export function maskBeamStop(raster: Raster, cv: OpenCv, options: BeamStopOption
       isHole[l] = x > 0 && y > 0 && x + w < cw && y + h < ch ? 1 : 0;
     }
     const rr = region.data as Uint8Array;
-    for (let p = 0; p < hl.length; p++) rr[p] = lab[p] === best || isHole[hl[p]!] ? 1 : 0;
+    for (let p = 0; p < hl.length; p++) rr[p] = inRegion[p] || isHole[hl[p]!] ? 1 : 0;
     const k5 = track(cv.getStructuringElement(cv.MORPH_ELLIPSE, new cv.Size(5, 5)));
     cv.morphologyEx(region, region, cv.MORPH_CLOSE, k5);
     const coarseRegion = Uint8Array.from(region.data as Uint8Array);
@@ -221,4 +242,87 @@ function edgeContrast(cv: OpenCv, s: Float32Array, lab: Int32Array, l: number, c
     grown.delete();
     kernel.delete();
   }
+}
+
+/** Side of the blocks of the local level, coarse px, and the reach of its window in blocks. */
+const LEVEL_BLOCK_PX = 16;
+const LEVEL_REACH_BLOCKS = 3;
+
+/**
+ * The typical level around each coarse pixel: the median of each block of
+ * LEVEL_BLOCK_PX x LEVEL_BLOCK_PX coarse px, then for each block the 75th
+ * percentile of the block medians within LEVEL_REACH_BLOCKS blocks (a window of
+ * 7 x 16 = 112 coarse px, a fifth of the long side: wider than a stop's disc,
+ * which so fills at most a quarter of it), interpolated bilinearly between
+ * block centres.
+ */
+function localLevels(s: Float32Array, cw: number, ch: number): Float32Array {
+  const bw = Math.ceil(cw / LEVEL_BLOCK_PX);
+  const bh = Math.ceil(ch / LEVEL_BLOCK_PX);
+  const medians = new Float64Array(bw * bh);
+  const values: number[] = [];
+  for (let by = 0; by < bh; by++) {
+    for (let bx = 0; bx < bw; bx++) {
+      values.length = 0;
+      for (let y = by * LEVEL_BLOCK_PX; y < Math.min(ch, (by + 1) * LEVEL_BLOCK_PX); y++) {
+        for (let x = bx * LEVEL_BLOCK_PX; x < Math.min(cw, (bx + 1) * LEVEL_BLOCK_PX); x++) values.push(s[y * cw + x]!);
+      }
+      medians[by * bw + bx] = medianOf(values);
+    }
+  }
+  const level = new Float64Array(bw * bh);
+  const window: number[] = [];
+  for (let by = 0; by < bh; by++) {
+    for (let bx = 0; bx < bw; bx++) {
+      window.length = 0;
+      for (let y = Math.max(0, by - LEVEL_REACH_BLOCKS); y <= Math.min(bh - 1, by + LEVEL_REACH_BLOCKS); y++) {
+        for (let x = Math.max(0, bx - LEVEL_REACH_BLOCKS); x <= Math.min(bw - 1, bx + LEVEL_REACH_BLOCKS); x++) window.push(medians[y * bw + x]!);
+      }
+      window.sort((p, q) => p - q);
+      level[by * bw + bx] = window[Math.floor(0.75 * (window.length - 1))]!;
+    }
+  }
+  const out = new Float32Array(cw * ch);
+  for (let y = 0; y < ch; y++) {
+    const u = Math.min(Math.max((y + 0.5) / LEVEL_BLOCK_PX - 0.5, 0), bh - 1);
+    const y0 = Math.floor(u), y1 = Math.min(bh - 1, y0 + 1), fy = u - y0;
+    for (let x = 0; x < cw; x++) {
+      const v = Math.min(Math.max((x + 0.5) / LEVEL_BLOCK_PX - 0.5, 0), bw - 1);
+      const x0 = Math.floor(v), x1 = Math.min(bw - 1, x0 + 1), fx = v - x0;
+      out[y * cw + x] = (1 - fy) * ((1 - fx) * level[y0 * bw + x0]! + fx * level[y0 * bw + x1]!) + fy * ((1 - fx) * level[y1 * bw + x0]! + fx * level[y1 * bw + x1]!);
+    }
+  }
+  return out;
+}
+
+/**
+ * The chosen region (label `best`) grown, 8-connected, into coarse pixels below
+ * D + leakFraction (L(p) - D) where the local level L(p) exceeds the median B
+ * (elsewhere the global threshold has already decided). Returns 1 per pixel of
+ * the grown region.
+ */
+function growIntoLeak(s: Float32Array, lab: Int32Array, best: number, cw: number, ch: number, dark: number, typical: number, leakFraction: number): Uint8Array {
+  const inRegion = new Uint8Array(lab.length);
+  const queue: number[] = [];
+  for (let p = 0; p < lab.length; p++) if (lab[p] === best) { inRegion[p] = 1; queue.push(p); }
+  if (!(leakFraction > 0)) return inRegion;
+  const local = localLevels(s, cw, ch);
+  for (let head = 0; head < queue.length; head++) {
+    const p = queue[head]!;
+    const x = p % cw;
+    const y = (p - x) / cw;
+    for (let dy = -1; dy <= 1; dy++) {
+      const yy = y + dy;
+      if (yy < 0 || yy >= ch) continue;
+      for (let dx = -1; dx <= 1; dx++) {
+        const xx = x + dx;
+        if (xx < 0 || xx >= cw) continue;
+        const q = yy * cw + xx;
+        if (inRegion[q]) continue;
+        const level = local[q]!;
+        if (level > typical && s[q]! < dark + leakFraction * (level - dark)) { inRegion[q] = 1; queue.push(q); }
+      }
+    }
+  }
+  return inRegion;
 }

@@ -102,6 +102,27 @@ describe('matchPhases', () => {
     expect(notes.join('\n')).toMatch(/Ag explains the same rings as Au with a strain of -18\d\d ppm/);
   });
 
+  it('weighs each line in the position term by its odds of showing beside the weakest measured ring: CaF2 rings rank CaF2 above Si', () => {
+    // Regression (accuracy benchmark case caf2-1k-halo): a fluorite's rings with h + k + l = 4n + 2 are
+    // kinematically 2e-4 to 2e-2 of its strongest, so its rings look diamond-like. With every predicted
+    // line counted as a position, Si (a = 5.431 Å, strain +0.58 %) outranked CaF2 (strain 0) by 4.4 nats.
+    // Rings: CaF2's own down to 0.55 Å with relativeIntensity >= 0.05 (what a pattern of 2000:1 range
+    // shows), 2 0 0 (2.4) left out as if hidden under a carbon halo; intensities the kinematic ones.
+    const caf2 = findPhase('CaF2')!;
+    const rings = predictRings(caf2, { dMinA: 0.55 })
+      .filter((r) => r.relativeIntensity >= 0.05 && r.families[0]!.hkl.join(' ') !== '2 0 0')
+      .map((r) => ({ dA: r.dA, dSigmaA: 1e-4 * r.dA, intensity: r.relativeIntensity }));
+    expect(rings.length).toBe(24);
+    const { matches } = matchPhases(rings, [si, caf2]);
+    expect(matches.map((m) => m.phaseId)).toEqual(['CaF2', 'Si']);
+    expect(matches[0]!.score - matches[1]!.score).toBeGreaterThan(1);
+    // Without intensities nothing tells the pattern's range: every line counts, and the same rings
+    // score their positions exactly as a lattice would.
+    const bare = matchPhases(rings.map((r) => ({ dA: r.dA, dSigmaA: r.dSigmaA })), [caf2]).matches[0]!;
+    const withI = matches[0]!;
+    expect(bare.scoreParts.position).toBeLessThan(withI.scoreParts.position - 3);
+  });
+
   it('rejects bad phases and options by name', () => {
     const rings = ringsOf('Au', 3);
     expect(() => matchPhases(rings, 'Au' as never)).toThrow(/phases must be an array/);
