@@ -92,7 +92,7 @@ export function calibrateCamera(analyses: readonly AnalysisResult[], standard: P
     assignment.ringToStandard.forEach((k, i) => {
       if (k < 0) return;
       const p = predicted[k]!;
-      rings.push({ radiusPx: a.rings[i]!.radiusPx, radiusSigmaPx: a.rings[i]!.radiusSigmaPx, dRefA: p.dA, label: ringLabel(p), imageIndex });
+      rings.push({ hkl: p.families[0]!.hkl, radiusPx: a.rings[i]!.radiusPx, radiusSigmaPx: a.rings[i]!.radiusSigmaPx, dRefA: p.dA, label: ringLabel(p), imageIndex });
       mine.push(i);
     });
     const left = a.rings.length - mine.length;

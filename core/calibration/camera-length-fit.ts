@@ -24,7 +24,11 @@
  * dropped and the fit repeated, while at least 3 rings remain.
  */
 
+import type { Hkl } from '../crystal/hkl';
+
 export interface StandardRing {
+  /** Indices of the ring's (first) reflection family. */
+  hkl: Hkl;
   radiusPx: number;
   radiusSigmaPx: number;
   /** Reference spacing of the standard's reflection(s) on this ring, Å. */
@@ -36,6 +40,7 @@ export interface StandardRing {
 }
 
 export interface RingResidual {
+  hkl: Hkl;
   label: string;
   imageIndex: number;
   radiusPx: number;
@@ -89,6 +94,7 @@ export function fitCameraLength(rings: readonly StandardRing[], wavelengthA: num
     rings.map((r, i) => {
       const dFitA = wavelengthA / (2 * Math.sin(Math.atan2(r.radiusPx, lp) / 2));
       return {
+        hkl: r.hkl,
         label: r.label,
         imageIndex: r.imageIndex,
         radiusPx: r.radiusPx,

@@ -10,6 +10,7 @@ const goldD = [3, 4, 8, 11, 12, 16, 19, 20].map((n) => 4.0786 / Math.sqrt(n));
 function rings(lp: number, sigma: number, seed: number, outlierAt = -1): StandardRing[] {
   const rand = mulberry32(seed);
   return goldD.map((d, i) => ({
+    hkl: [i, 0, 0] as const,
     radiusPx: ringRadiusPx(d, { wavelengthA: lambda, cameraLengthPx: lp }) + sigma * gaussian(rand) + (i === outlierAt ? 40 * sigma : 0),
     radiusSigmaPx: sigma,
     dRefA: d,
