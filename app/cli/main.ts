@@ -7,7 +7,10 @@ import { QuantityError } from '../common/quantity';
 import { processIo, type CliIo } from './cli-io';
 import { EXIT, InputError, NothingFoundError, UsageError } from './exit-codes';
 import { registerAnalyze } from './commands/analyze';
+import { registerCalibrate } from './commands/calibrate';
 import { registerCalibrations } from './commands/calibrations';
+import { CheckExit, registerCheck } from './commands/check';
+import { registerHistory } from './commands/history';
 import { registerIndex } from './commands/index-rings';
 import { registerPhases } from './commands/phases';
 import { registerRings } from './commands/rings';
@@ -22,7 +25,8 @@ Exit codes:
   3  an input file is missing, unreadable or invalid
   4  nothing found: no rings in the image, or no lattice explains the rings
   5  check: the film failed
-  6  check: inconclusive`;
+  6  check: inconclusive
+  For a batch check the worst: 3 when an image could not be checked, else 5 before 6 before 0.`;
 
 function buildProgram(io: CliIo): Command {
   const program = new Command('annula')
@@ -43,7 +47,10 @@ function buildProgram(io: CliIo): Command {
   registerIndex(program, io);
   registerAnalyze(program, io);
   registerSimulate(program, io);
+  registerCalibrate(program, io);
   registerCalibrations(program, io);
+  registerCheck(program, io);
+  registerHistory(program, io);
   for (const sub of program.commands) {
     sub.exitOverride().showHelpAfterError(`(run annula ${sub.name()} --help for usage)`);
     sub.configureOutput(program.configureOutput());
@@ -67,6 +74,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
 }
 
 function reportError(error: unknown, io: CliIo): number {
+  if (error instanceof CheckExit) return error.exitCode; // the verdict was printed
   if (error instanceof CommanderError) {
     // commander has already printed its message (help, version, or the mistake).
     const quiet = ['commander.helpDisplayed', 'commander.help', 'commander.version'];

@@ -9,7 +9,7 @@
  * unless ANNULA_REQUIRE_REFERENCE=1. Set ANNULA_REPORT_PAGES_DIR to keep the
  * rendered pages as PNG files for a person to look at.
  */
-import { execFileSync, spawnSync } from 'node:child_process';
+import { execFileSync } from 'node:child_process';
 import { copyFileSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -17,12 +17,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildAnalysisReport, PALETTE, REPORT_CAUTIONS, type AnalysisReportInput, type Rgb } from '../../app/common/report';
 import { findPhase } from '../../core/crystal';
 import { calibrateOnGold, checkedTinFilm } from '../unit/app/common/report/simulated-films';
+import { hasReferenceTool, readNetpbm } from './report-pages';
 
-function hasCommand(name: string): boolean {
-  const ok = spawnSync(name, ['-v'], { stdio: 'ignore' }).error === undefined;
-  if (!ok && process.env.ANNULA_REQUIRE_REFERENCE === '1') throw new Error(`reference tool missing: ${name} (apt-get install -y poppler-utils)`);
-  return ok;
-}
+const hasCommand = (name: string): boolean => hasReferenceTool(name);
 
 const available = hasCommand('pdftoppm') && hasCommand('pdftotext');
 
@@ -32,21 +29,11 @@ interface Page {
   rgb: Uint8Array;
 }
 
-/** A binary PPM (P6, maxval 255), as pdftoppm writes it. */
+/** A binary PPM (P6), as pdftoppm writes it. */
 function readPpm(bytes: Uint8Array): Page {
-  let pos = 0;
-  const token = (): string => {
-    while (bytes[pos] === 0x20 || bytes[pos] === 0x0a || bytes[pos] === 0x0d || bytes[pos] === 0x09) pos++;
-    let s = '';
-    while (pos < bytes.length && ![0x20, 0x0a, 0x0d, 0x09].includes(bytes[pos]!)) s += String.fromCharCode(bytes[pos++]!);
-    return s;
-  };
-  if (token() !== 'P6') throw new Error('not a binary PPM');
-  const width = Number(token());
-  const height = Number(token());
-  if (Number(token()) !== 255) throw new Error('PPM maxval is not 255');
-  pos++; // the single whitespace before the pixels
-  return { width, height, rgb: bytes.subarray(pos, pos + 3 * width * height) };
+  const image = readNetpbm(bytes);
+  if (image.channels !== 3) throw new Error('expected a colour PPM (P6)');
+  return { width: image.width, height: image.height, rgb: image.data };
 }
 
 const nonWhiteShare = (p: Page): number => {

@@ -1,226 +1,282 @@
 import { basename, extname, join } from 'node:path';
-import { readFile, stat } from 'node:fs/promises';
 import type { Command } from 'commander';
 import { stringify } from 'csv-stringify/sync';
 import { formatHkl, type Phase } from '../../../core/crystal';
-import { analyze, type AnalysisResult, type AnalysisStage } from '../../../core/pipeline';
-import { parseMaskPolygons, type MaskPolygon } from '../../../core/rings';
-import { parseRelative } from '../../common/quantity';
-import { loadOpenCv } from '../../node/load-opencv';
-import { processRowBandPool } from '../../node/row-band-pool';
+import { reindexAnalysis, type AnalysisCamera, type AnalysisResult } from '../../../core/pipeline';
+import { parseQuantity, parseRelative } from '../../common/quantity';
+import type { ReportCalibration } from '../../common/report';
+import type { CalibrationRecord } from '../../node/store';
 import { addCameraOptions, readCameraFlags, type CameraFlags } from '../camera-options';
+import { cameraFromFit, cameraFromRecord, distortionDisagreement, findStoredCalibration, fitCameraOnStandard, missingStrongestStandardRing } from '../calibration-camera';
 import { printCandidates, printCaution } from '../candidate-report';
 import { printJson, type CliIo } from '../cli-io';
-import { InputError, NothingFoundError, UsageError } from '../exit-codes';
+import { NothingFoundError, UsageError } from '../exit-codes';
+import {
+  addAnalysisShapeOptions,
+  analysisOutput,
+  analyzeImageFile,
+  nominalCameraSource,
+  readAnalysisShape,
+  resolveImageInput,
+  stageReporter,
+  withSampleCamera,
+  type AnalysisOutput,
+  type AnalysisShapeOptions,
+  type ImageAnalysis,
+  type InternalStandardSummary,
+} from '../image-analysis';
 import { fixed, kilovolts, withUncertainty } from '../number-format';
 import { refuseExisting, writeOutput } from '../output-files';
-import { collectPhases, resolvePhaseArgument } from '../phase-sources';
-import { readImageArgument } from '../read-image-argument';
+import { resolvePhaseArgument } from '../phase-sources';
+import { reportFilePaths, reportStem, writeReportFiles } from '../report-files';
+import { openStoreForCommand, STORE_OPTION_HELP } from '../store-access';
 import { formatTable } from '../terminal-table';
 
-interface AnalyzeOptions extends CameraFlags {
+interface AnalyzeOptions extends CameraFlags, AnalysisShapeOptions {
   cameraSigma?: string;
-  phase?: string[];
-  phases?: string[];
-  mask?: string;
-  center?: string;
-  page?: string;
-  distortion: boolean;
-  beamStop: boolean;
+  calibration?: string;
+  internalStandard?: string;
+  store?: string;
   json?: boolean;
   out?: string;
+  report?: string;
   force?: boolean;
   quiet?: boolean;
 }
 
-const STAGE_WORDS: Record<AnalysisStage, string> = {
-  masks: 'masking saturated, hot and beam-stop pixels',
-  geometry: 'finding the centre and distortion',
-  profile: 'measuring the rings',
-  'd-spacings': 'computing d-spacings',
-  indexing: 'indexing',
-};
-
-/** Stage lines on stderr, from the first stage that starts more than a second after the run began. */
-function stageReporter(io: CliIo, quiet: boolean): (stage: AnalysisStage, fraction: number) => void {
-  const started = Date.now();
-  return (stage, fraction) => {
-    if (quiet || fraction !== 0 || Date.now() - started < 1000) return;
-    io.err(`annula analyze: ${STAGE_WORDS[stage]} (${((Date.now() - started) / 1000).toFixed(1)} s)`);
-  };
-}
-
-interface SampleFolder {
-  imagePath: string;
-  camera: { voltage?: string; cameraLength?: string; pixelSize?: string };
-}
-
-/** A sample folder (samples/<name>/sample.json): its image and recorded camera settings; null for a plain file. */
-async function readSampleFolder(path: string): Promise<SampleFolder | null> {
-  let isFolder = false;
-  try {
-    isFolder = (await stat(path)).isDirectory();
-  } catch {
-    return null; // not there: readImageArgument reports it
-  }
-  if (!isFolder) return null;
-  const file = join(path, 'sample.json');
-  let json: { image?: unknown; camera?: Record<string, unknown> };
-  try {
-    json = JSON.parse(await readFile(file, 'utf8'));
-  } catch {
-    throw new InputError(`${path} is a folder without a readable sample.json; give an image file, or a sample folder such as samples/gold-standard`);
-  }
-  if (typeof json.image !== 'string') throw new InputError(`${file}: "image" (the pattern's file name) is missing`);
-  const text = (v: unknown): string | undefined => (typeof v === 'string' ? v : undefined);
-  return {
-    imagePath: join(path, json.image),
-    camera: { voltage: text(json.camera?.voltage), cameraLength: text(json.camera?.cameraLength), pixelSize: text(json.camera?.pixelSize) },
-  };
-}
-
-async function readMask(path: string): Promise<MaskPolygon[]> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch {
-    throw new InputError(`mask file "${path}" cannot be read; check the path`);
-  }
-  try {
-    return parseMaskPolygons(JSON.parse(text));
-  } catch (e) {
-    throw new InputError(`mask file "${path}": ${(e as Error).message}`);
-  }
-}
-
-function readCenter(text: string): { x: number; y: number } {
-  const parts = text.split(',').map((s) => Number(s.trim()));
-  if (parts.length !== 2 || parts.some((v) => !Number.isFinite(v))) {
-    throw new UsageError(`--center: "${text}" is not two numbers x,y in pixels, e.g. --center 1024.5,1010`);
-  }
-  return { x: parts[0]!, y: parts[1]! };
-}
-
 /** Rows of the ring table, for CSV and for people. */
-export function ringRows(result: AnalysisResult): Array<Record<string, string | number | null>> {
+export function ringRows(result: Pick<AnalysisResult, 'rings'>): Array<Record<string, string | number | null>> {
   return result.rings.map((r, i) => ({ ring: i + 1, ...r, hkl: r.hkl ? formatHkl(r.hkl) : null }));
 }
 
+/**
+ * L/p standing in for an unknown camera while the rings are measured (only d and the
+ * indexing depend on the camera, and both are redone with the fitted one): 1 m over 14 µm.
+ */
+export const PLACEHOLDER_CAMERA_LENGTH_PX = 1 / 14e-6;
+
+/** The voltage given on the command line or by the sample folder, or null. */
+export function givenVoltage(flags: CameraFlags): number | null {
+  return flags.voltage === undefined ? null : parseQuantity(flags.voltage, 'voltage', '--voltage');
+}
+
+/**
+ * The camera for an analysis with a stored calibration: the record's camera, checked against
+ * the voltage the command line or the sample folder gives. The camera flags of the command
+ * line conflict with it (a sample folder's recorded nominal camera is simply not used).
+ */
+export async function calibrationCameraFor(
+  name: string,
+  storeOption: string | undefined,
+  flags: CameraFlags,
+  commandFlags: CameraFlags,
+  io: CliIo,
+): Promise<{ camera: AnalysisCamera; record: CalibrationRecord }> {
+  const clash = (['cameraLength', 'pixelSize', 'scale'] as const).find((k) => commandFlags[k] !== undefined);
+  if (clash) {
+    const flag = { cameraLength: '--camera-length', pixelSize: '--pixel-size', scale: '--scale' }[clash];
+    throw new UsageError(`${flag} and --calibration both describe the camera; give one of them (the calibration's camera length is used with --calibration)`);
+  }
+  const { store, location } = await openStoreForCommand(storeOption, { create: false, io });
+  if (!store) throw new UsageError(`--calibration: there is no lab store at ${location.path} yet; make a calibration first with annula calibrate --save <name>, or point --store (or ANNULA_STORE) at the store`);
+  try {
+    const record = await findStoredCalibration(store, name);
+    const voltageV = givenVoltage(flags);
+    return { camera: cameraFromRecord(record, voltageV, flags.voltage === commandFlags.voltage ? '--voltage' : 'the sample folder'), record };
+  } finally {
+    await store.close();
+  }
+}
+
+/** Ring list "1, 2, 4" (1-based, as the ring tables number them). */
+function ringList(indices: readonly number[]): string {
+  return indices.map((i) => String(i + 1)).join(', ');
+}
+
+/**
+ * Internal standard: the camera fitted on the standard's rings of this very analysis, then
+ * the other rings indexed with it (the standard's phase left out of their candidates).
+ * @throws NothingFoundError when the standard's rings cannot calibrate the camera
+ */
+export function applyInternalStandard(
+  result: AnalysisResult,
+  standard: Phase,
+  phases: readonly Phase[],
+  nominalCameraLengthPx: number | null,
+): { result: AnalysisResult; summary: InternalStandardSummary; warnings: string[] } {
+  const outcome = fitCameraOnStandard([result], standard, nominalCameraLengthPx);
+  if (!outcome.ok) throw new NothingFoundError(`--internal-standard ${standard.id}: the camera could not be calibrated on its rings: ${outcome.reason}`);
+  const fit = outcome.calibration;
+  const missing = missingStrongestStandardRing(fit, [result], standard);
+  if (missing.length) throw new NothingFoundError(`--internal-standard ${standard.id}: the camera could not be calibrated on its rings: ${missing[0]!.replace(/^image 1: /, '')}; is ${standard.id} in this film? (check the nominal camera length too)`);
+  const mine = fit.standardRings[0] ?? [];
+  const others = result.rings.map((_, i) => i).filter((i) => !mine.includes(i));
+  const camera = cameraFromFit(fit, `internal standard ${standard.id} (rings ${ringList(mine)} of this image)`);
+  const reindexed = reindexAnalysis(result, camera, phases.filter((p) => p.id !== standard.id), { ringIndices: others });
+  // The standard's rings keep its indices (residuals are in the order of standardRings for image 0).
+  const residuals = fit.residuals.map((r, k) => ({ ringIndex: mine[k]!, hkl: r.hkl, residualPpm: r.residualPpm, rejected: r.rejected }));
+  const rings = reindexed.rings.map((r, i) => {
+    const own = residuals.find((x) => x.ringIndex === i);
+    return own ? { ...r, hkl: own.hkl, phase: standard.id } : r;
+  });
+  const warnings = fit.warnings.filter((w) => !/left out of the calibration$/.test(w)).map((w) => `internal standard ${standard.id}: ${w}`);
+  if (others.length === 0) warnings.push(`internal standard ${standard.id}: every measured ring belongs to it; no ring is left for the unknown phase`);
+  // The rings left for the unknown could themselves be the standard's under another camera (two
+  // fcc phases a few percent apart, say): when they fit it with as many rings, the choice is a guess.
+  if (others.length >= 3) {
+    const alternative = fitCameraOnStandard([{ ...result, rings: others.map((i) => result.rings[i]!) }], standard, nominalCameraLengthPx);
+    const used = (o: typeof outcome): number => (o.ok ? o.calibration.residuals.filter((r) => !r.rejected).length : 0);
+    if (alternative.ok && used(alternative) >= used(outcome)) {
+      warnings.push(
+        `internal standard ${standard.id}: the other rings fit ${standard.id} just as well under a camera ${((alternative.calibration.cameraLengthPx / fit.cameraLengthPx - 1) * 100).toFixed(1)}% away (${used(alternative)} rings against ${used(outcome)}): which rings are the standard's is ambiguous; give the nominal camera length closely, or calibrate on a separate standard film`,
+      );
+    }
+  }
+  return {
+    result: { ...reindexed, rings },
+    summary: { phase: standard.id, ringIndices: mine, cameraLengthPx: fit.cameraLengthPx, cameraLengthSigmaPx: fit.cameraLengthSigmaPx, residuals },
+    warnings,
+  };
+}
 
 /** `annula analyze <image>`: centre, distortion, rings, d-spacings and candidates of one pattern. */
 export function registerAnalyze(program: Command, io: CliIo): void {
-  const collect = (value: string, list: string[] | undefined): string[] => [...(list ?? []), value];
-  addCameraOptions(
-    program
-      .command('analyze')
-      .argument('<image>', 'the pattern: TIFF, PNG or JPEG (8 to 32 bit; RGB is reduced to luminance), or a sample folder holding sample.json (e.g. samples/gold-standard)')
-      .description('measure a ring pattern: centre, elliptical distortion, ring radii, d-spacings, and the lattices and phases that explain them'),
-    true,
+  addAnalysisShapeOptions(
+    addCameraOptions(
+      program
+        .command('analyze')
+        .argument('<image>', 'the pattern: TIFF, PNG or JPEG (8 to 32 bit; RGB is reduced to luminance), or a sample folder holding sample.json (e.g. samples/gold-standard)')
+        .description('measure a ring pattern: centre, elliptical distortion, ring radii, d-spacings, and the lattices and phases that explain them'),
+      false,
+    ).option('--camera-sigma <value>', 'relative standard uncertainty of a nominal camera length, e.g. 1% (default: none, the camera is taken as exact and the result says so)'),
   )
-    .option('--camera-sigma <value>', 'relative standard uncertainty of the camera length, e.g. 1% (default: none, the camera is taken as exact and the result says so)')
-    .option('--phase <id>', 'match only this phase (library id or name, or a .cif/.json file); repeat for several', collect)
-    .option('--phases <files...>', 'add phases from CIF or JSON files to the library')
-    .option('--mask <file.json>', 'regions to exclude: [{ "points": [[x, y], ...] }, ...] in pixel coordinates')
-    .option('--center <x,y>', 'start the centre search here (pixels), e.g. when the pattern is faint')
-    .option('--page <n>', 'page of a multi-page TIFF, from 0', undefined)
-    .option('--no-distortion', 'fit circles only (no elliptical distortion)')
-    .option('--no-beam-stop', 'do not look for a beam stop')
+    .option('--calibration <name>', 'use the camera of this saved calibration (see annula calibrations); its uncertainty enters every d and a')
+    .option('--internal-standard <phase>', 'a known phase in the same film (e.g. Au): calibrate the camera on its rings in this image, then index the other rings')
+    .option('--store <file>', STORE_OPTION_HELP)
     .option('--json', 'print the full result as JSON (stable keys; see README)')
     .option('--out <dir>', 'also write <image>.analysis.json, <image>.rings.csv and <image>.profile.csv into this folder')
-    .option('--force', 'with --out, replace files of the same names')
+    .option('--report <dir>', 'also write the PDF report, the ring table (CSV) and the JSON into this folder')
+    .option('--force', 'with --out or --report, replace files of the same names')
     .option('--quiet', 'no progress lines on stderr')
     .addHelpText(
       'after',
       '\nd-spacings use the exact flat-detector geometry d = lambda / (2 sin(atan(R / L) / 2)).\n' +
-        'Without --camera-sigma the camera length is taken as exact: calibrate on a standard film for real uncertainties.\n\n' +
-        'Example:\n  annula analyze film.tif --voltage 200kV --camera-length 1m --pixel-size 14um --phase Au',
+        'The camera: --camera-length with --pixel-size (or --scale), a saved --calibration, or an --internal-standard.\n' +
+        'A nominal camera length is taken as exact unless --camera-sigma says otherwise: calibrate on a standard film for real uncertainties.\n\n' +
+        'Examples:\n  annula analyze film.tif --voltage 200kV --camera-length 1m --pixel-size 14um --phase Au\n' +
+        '  annula analyze film.tif --voltage 200kV --calibration "TEM-2 200kV March"\n' +
+        '  annula analyze film-on-gold.tif --voltage 200kV --camera-length 1m --pixel-size 14um --internal-standard Au',
     )
     .action(async (imageArg: string, opts: AnalyzeOptions) => {
-      const sample = await readSampleFolder(imageArg);
-      const imagePath = sample ? sample.imagePath : imageArg;
-      if (sample) {
-        // The sample's recorded settings, unless the command line gives its own.
-        opts.voltage ??= sample.camera.voltage;
-        if (opts.scale === undefined) {
-          opts.cameraLength ??= sample.camera.cameraLength;
-          opts.pixelSize ??= sample.camera.pixelSize;
-        }
+      if (opts.calibration !== undefined && opts.internalStandard !== undefined) {
+        throw new UsageError('--calibration and --internal-standard both set the camera; give one of them');
       }
-      const camera = readCameraFlags(opts, true);
-      const cameraLengthPx = camera.cameraLengthPx!;
-      const relSigma = opts.cameraSigma === undefined ? 0 : parseRelative(opts.cameraSigma, '--camera-sigma');
-      const page = opts.page === undefined ? undefined : Number(opts.page);
-      if (page !== undefined && !(Number.isInteger(page) && page >= 0)) throw new UsageError(`--page: "${opts.page}" is not a page number (0, 1, 2, ...)`);
-      const notes: string[] = [];
-      const library = collectPhases(opts.phases ?? [], notes);
-      const phases: Phase[] = opts.phase ? opts.phase.map((p) => resolvePhaseArgument(p, library.filter((x) => x.origin !== 'library'))) : library;
-      const polygons = opts.mask ? await readMask(opts.mask) : undefined;
-      const start = opts.center ? readCenter(opts.center) : undefined;
-      const stem = basename(imagePath, extname(imagePath));
+      if (opts.cameraSigma !== undefined && (opts.calibration !== undefined || opts.internalStandard !== undefined)) {
+        throw new UsageError(`--camera-sigma is for a nominal camera; with ${opts.calibration !== undefined ? '--calibration' : '--internal-standard'} the uncertainty comes from the fit`);
+      }
+      const input = await resolveImageInput(imageArg);
+      const flags = withSampleCamera(opts, input);
+      const shape = await readAnalysisShape(opts);
+      const standard = opts.internalStandard !== undefined ? resolvePhaseArgument(opts.internalStandard, shape.library.filter((x) => x.origin !== 'library')) : null;
+      const stem = basename(input.imagePath, extname(input.imagePath));
       const outputs = opts.out ? ['analysis.json', 'rings.csv', 'profile.csv'].map((suffix) => join(opts.out!, `${stem}.${suffix}`)) : [];
       if (opts.out && !opts.force) await refuseExisting(outputs);
+      if (opts.report && !opts.force) await refuseExisting(Object.values(reportFilePaths(opts.report, reportStem(input.imagePath), false)), '--report folder');
 
-      // Threads for the pixel passes: they boot while the image is read (a pass that finds them
-      // not ready yet runs here; the results never depend on it).
-      const pool = processRowBandPool();
-      const image = await readImageArgument(imagePath, page);
-      const described = camera.described;
-      const source =
-        described && 'cameraLengthM' in described
-          ? `nominal: camera length ${described.cameraLengthM} m, pixel ${described.pixelSizeM * 1e6} µm`
-          : `nominal: reciprocal scale ${described && 'scalePerNmPerPx' in described ? described.scalePerNmPerPx : '?'} /nm per px`;
-      const result = analyze(
-        pool.share(image.raster),
-        {
-          camera: { voltageV: camera.voltageV, cameraLengthPx, cameraLengthSigmaPx: relSigma * cameraLengthPx, source, calibrated: false },
-          image: { bitsPerSample: image.info.bitsPerSample, sampleFormat: image.info.sampleFormat },
-          phases,
-          ...(polygons ? { maskPolygons: polygons } : {}),
-          ...(start ? { startFrame: { centerXPx: start.x, centerYPx: start.y, axisRatio: 1, angleDeg: 0 } } : {}),
-          fitDistortion: opts.distortion,
-          detectBeamStop: opts.beamStop,
-        },
-        stageReporter(io, opts.quiet ?? false),
-        loadOpenCv(),
-        { rowBands: pool },
-      );
-      // The documented key order: image (with the file's path and fingerprint) first, then the rest as analyze returns it.
-      const { image: imageSummary, ...rest } = result;
-      const output = {
-        image: { path: imagePath, ...imageSummary, sha256: image.sha256 },
-        ...rest,
-        warnings: [...image.info.warnings, ...notes, ...result.warnings],
-      };
-
-      if (opts.out) {
-        const rows = ringRows(result);
-        await writeOutput(outputs[0]!, JSON.stringify(output, null, 2) + '\n', opts.force ?? false);
-        await writeOutput(outputs[1]!, stringify(rows, { header: true, columns: rows.length ? Object.keys(rows[0]!) : ['ring'] }), opts.force ?? false);
-        await writeOutput(
-          outputs[2]!,
-          stringify(
-            result.profile.radiusPx.map((r, k) => ({ radiusPx: r, mean: result.profile.mean[k], background: result.profile.background[k] })),
-            { header: true, columns: ['radiusPx', 'mean', 'background'] },
-          ),
-          opts.force ?? false,
-        );
+      const extraWarnings = [...shape.notes];
+      let camera: AnalysisCamera;
+      let record: CalibrationRecord | null = null;
+      let nominalLp: number | null = null;
+      if (opts.calibration !== undefined) {
+        ({ camera, record } = await calibrationCameraFor(opts.calibration, opts.store, flags, opts, io));
+        if (flags.voltage === undefined) extraWarnings.push(`no voltage was given: the calibration's ${kilovolts(camera.voltageV)} kV was assumed`);
+      } else {
+        const nominal = readCameraFlags(flags, standard === null);
+        const relSigma = opts.cameraSigma === undefined ? 0 : parseRelative(opts.cameraSigma, '--camera-sigma');
+        nominalLp = nominal.cameraLengthPx;
+        camera = nominal.cameraLengthPx
+          ? { voltageV: nominal.voltageV, cameraLengthPx: nominal.cameraLengthPx, cameraLengthSigmaPx: relSigma * nominal.cameraLengthPx, source: nominalCameraSource(nominal), calibrated: false }
+          : { voltageV: nominal.voltageV, cameraLengthPx: PLACEHOLDER_CAMERA_LENGTH_PX, cameraLengthSigmaPx: 0, source: 'placeholder (no camera given)', calibrated: false };
       }
-      if (opts.json) printJson(io, output);
-      else printReadable(io, output, result);
-      if (opts.out && !opts.json) io.out(`\nwrote ${outputs.join(', ')}`);
 
-      if (result.status !== 'ok') throw new NothingFoundError(`no rings found in ${imagePath}: ${result.warnings.filter((w) => /^no (rings|pattern)/.test(w)).join('; ') || 'see the warnings'}`);
+      const analysis: ImageAnalysis = await analyzeImageFile({
+        imagePath: input.imagePath,
+        camera,
+        shape,
+        ...(standard ? { phases: [standard] } : {}),
+        onProgress: stageReporter(io, 'analyze', opts.quiet ?? false),
+      });
+      let internalStandard: InternalStandardSummary | null = null;
+      if (standard) {
+        const applied = applyInternalStandard(analysis.result, standard, shape.phases, nominalLp);
+        analysis.result = applied.result;
+        internalStandard = applied.summary;
+        extraWarnings.push(...applied.warnings);
+      }
+      if (record) {
+        const disagreement = distortionDisagreement(analysis.result, record);
+        if (disagreement) extraWarnings.push(disagreement);
+      }
+      const output = analysisOutput(analysis, input.imagePath, { calibration: record?.name ?? null, internalStandard, extraWarnings });
+      const result = analysis.result;
+
+      if (opts.out) await writeAnalysisFiles(outputs, output, opts.force ?? false);
+      const report = opts.report
+        ? await writeReportFiles(
+            opts.report,
+            {
+              analysis: output,
+              raster: analysis.image.raster,
+              phases: shape.phases,
+              calibration: record ?? (internalStandard && standard ? internalStandardForReport(internalStandard, standard, output.camera.source) : null),
+            },
+            { force: opts.force ?? false },
+          )
+        : null;
+      if (opts.json) printJson(io, output);
+      else printAnalysis(io, output);
+      if (opts.out && !opts.json) io.out(`\nwrote ${outputs.join(', ')}`);
+      if (report && !opts.json) io.out(`${opts.out ? '' : '\n'}wrote ${report.pdf}, ${report.csv}, ${report.json}`);
+
+      if (result.status !== 'ok') throw new NothingFoundError(`no rings found in ${input.imagePath}: ${result.warnings.filter((w) => /^no (rings|pattern)/.test(w)).join('; ') || 'see the warnings'}`);
       if (!result.conclusion.conclusive) throw new NothingFoundError(`rings measured, but no convincing answer: ${result.conclusion.reason}`);
     });
 }
 
-function printReadable(io: CliIo, output: { image: { path: string }; warnings: string[] }, r: AnalysisResult): void {
-  io.out(`${output.image.path}: ${r.image.width} x ${r.image.height}, ${r.image.bitsPerSample} bit; ${kilovolts(r.voltageV)} kV, lambda = ${fixed(r.wavelengthA * 100, 4)} pm; camera length ${fixed(r.camera.cameraLengthPx, 1)} px (${r.camera.source})`);
+/** The report's calibration section for an internal standard (no stored record). */
+function internalStandardForReport(s: InternalStandardSummary, standard: Phase, source: string): ReportCalibration {
+  return { name: source, date: new Date().toISOString().slice(0, 10), standard: `${standard.id} (${standard.name}), internal`, cameraLengthPx: s.cameraLengthPx, cameraLengthSigmaPx: s.cameraLengthSigmaPx };
+}
+
+/** --out: the JSON, the ring table and the profile. */
+async function writeAnalysisFiles(paths: string[], output: AnalysisOutput, force: boolean): Promise<void> {
+  const rows = ringRows(output);
+  await writeOutput(paths[0]!, JSON.stringify(output, null, 2) + '\n', force);
+  await writeOutput(paths[1]!, stringify(rows, { header: true, columns: rows.length ? Object.keys(rows[0]!) : ['ring'] }), force);
+  await writeOutput(
+    paths[2]!,
+    stringify(
+      output.profile.radiusPx.map((r, k) => ({ radiusPx: r, mean: output.profile.mean[k], background: output.profile.background[k] })),
+      { header: true, columns: ['radiusPx', 'mean', 'background'] },
+    ),
+    force,
+  );
+}
+
+/** The readable report of one analysis (shared with check). */
+export function printAnalysis(io: CliIo, r: AnalysisOutput, options: { caution?: boolean } = {}): void {
+  io.out(`${r.image.path}: ${r.image.width} x ${r.image.height}, ${r.image.bitsPerSample} bit; ${kilovolts(r.voltageV)} kV, lambda = ${fixed(r.wavelengthA * 100, 4)} pm; camera length ${withUncertainty(r.camera.cameraLengthPx, r.camera.cameraLengthSigmaPx)} px (${r.camera.source})`);
   if (r.status === 'no-geometry' && !Number.isFinite(r.center.xPx)) {
     io.out('No pattern centre could be found.');
   } else {
     io.out(`Centre (${withUncertainty(r.center.xPx, r.center.sigmaXPx)}, ${withUncertainty(r.center.yPx, r.center.sigmaYPx)}) px; distortion q = ${withUncertainty(r.distortion.axisRatio, r.distortion.axisRatioSigma)}, major axis at ${r.distortion.angleSigmaDeg === null ? 'undetermined angle' : `${withUncertainty(r.distortion.angleDeg, r.distortion.angleSigmaDeg)} deg`}`);
     io.out(`Masked: ${(r.masks.excludedFraction * 100).toFixed(1)}% of pixels (${r.masks.saturatedPixels} saturated, ${r.masks.hotPixels} hot, beam stop ${r.masks.beamStopFound ? 'found' : 'not found'})`);
+  }
+  if (r.internalStandard) {
+    const s = r.internalStandard;
+    io.out(
+      `Camera fitted on the internal standard ${s.phase}, rings ${ringList(s.ringIndices)}: L/p = ${withUncertainty(s.cameraLengthPx, s.cameraLengthSigmaPx)} px; residuals ${s.residuals.map((x) => `${formatHkl(x.hkl)} ${x.residualPpm.toFixed(0)} ppm${x.rejected ? ' (rejected)' : ''}`).join(', ')}`,
+    );
   }
   if (r.rings.length > 0) {
     io.out('');
@@ -241,8 +297,9 @@ function printReadable(io: CliIo, output: { image: { path: string }; warnings: s
       ),
     );
     io.out('');
-    printCandidates(io, r.rings.length, { candidates: r.candidates, ambiguities: r.ambiguities, secondPhase: r.secondPhase, conclusion: r.conclusion, notes: r.notes });
+    const indexedCount = r.internalStandard ? r.rings.length - r.internalStandard.ringIndices.length : r.rings.length;
+    printCandidates(io, indexedCount, { candidates: r.candidates, ambiguities: r.ambiguities, secondPhase: r.secondPhase, conclusion: r.conclusion, notes: r.notes });
   }
-  for (const w of output.warnings) io.out(`Warning: ${w}`);
-  printCaution(io);
+  for (const w of r.warnings) io.out(`Warning: ${w}`);
+  if (options.caution ?? true) printCaution(io);
 }

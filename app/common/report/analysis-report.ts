@@ -10,7 +10,9 @@
  *          (renderPatternImage), with a legend and its grey scale stated;
  *  page 2  the radial profile: data, background, fitted peaks, predicted rings
  *          (profile-plot.ts), linear and logarithmic;
- *  page 3+ the ring table, the candidate table, the film check's numbers,
+ *  page 3+ the ring table, the candidate table, the film check's numbers, the
+ *          camera calibration used (its record: setting, fit, distortion, residual
+ *          per ring in ppm of d, rejected rings; or that there was none),
  *          ambiguities, second-phase rings, notes and warnings, the cautions,
  *          and a box for the reviewer's signature.
  * Every page: a footer with the version, sample and fingerprint, 'page i of n',
@@ -49,6 +51,26 @@ export interface ReportCalibration {
   cameraLengthPx: number;
   cameraLengthSigmaPx: number;
   instrument?: string;
+  /** What the calibration's record holds beyond that, for the report's calibration section (optional). */
+  details?: ReportCalibrationDetails;
+}
+
+/** A calibration's record as the report's 'Camera calibration' section prints it. */
+export interface ReportCalibrationDetails {
+  voltageV: number;
+  nominalCameraLengthM: number | null;
+  pixelSizeM: number | null;
+  /** The distortion the standard's images showed (axis ratio major/minor, major-axis angle from +x toward +y). */
+  distortion: { axisRatio: number; axisRatioSigma: number; angleDeg: number; angleSigmaDeg: number | null } | null;
+  ringsUsed: number;
+  ringsRejected: number;
+  /** Root mean square of the residuals, ppm of d; null without residuals. */
+  rmsResidualPpm: number | null;
+  imageCount: number;
+  /** Every ring of the fit: its indices, measured d and residual in ppm of d. */
+  residuals: ReadonlyArray<{ hkl: readonly number[]; dA: number; residualPpm: number }>;
+  /** Why each rejected ring was left out. */
+  rejected: readonly string[];
 }
 
 export interface AnalysisReportInput {
@@ -333,7 +355,7 @@ function ringTable(w: ReportWriter, result: AnalysisResult): void {
     { title: 'continuity', width: 47, align: 'right' },
     { title: 'spottiness', width: 48, align: 'right' },
     { title: 'hkl', width: 50, align: 'left' },
-    { title: 'phase', width: 59, align: 'left' },
+    { title: 'phase', width: 55, align: 'left' },
   ];
   const named = result.rings.map((_, i) => ringLabel(result, i));
   const rows = result.rings.map((r, i) => {
@@ -373,13 +395,13 @@ function candidateTable(w: ReportWriter, result: AnalysisResult): void {
   const shown = result.candidates.slice(0, 10);
   const cols: TableColumn[] = [
     { title: '#', width: 18, align: 'right' },
-    { title: 'phase', width: 104, align: 'left' },
-    { title: 'lattice', width: 76, align: 'left' },
-    { title: 'a (Å)', width: 66, align: 'right' },
-    { title: 'strain (ppm)', width: 62, align: 'right' },
-    { title: 'figure of merit', width: 82, align: 'right' },
-    { title: 'explained', width: 50, align: 'right' },
-    { title: 'missing', width: 53, align: 'right' },
+    { title: 'phase', width: 138, align: 'left' },
+    { title: 'lattice', width: 72, align: 'left' },
+    { title: 'a (Å)', width: 64, align: 'right' },
+    { title: 'strain (ppm)', width: 60, align: 'right' },
+    { title: 'figure of merit', width: 68, align: 'right' },
+    { title: 'explained', width: 48, align: 'right' },
+    { title: 'missing', width: 43, align: 'right' },
   ];
   const rows = shown.map((c, i) => [
     String(i + 1),
@@ -398,6 +420,63 @@ function candidateTable(w: ReportWriter, result: AnalysisResult): void {
       'Strain: fitted a against the phase’s reference value. Missing: predicted rings in the measured range that were not found.',
     { size: 7, colour: PALETTE.muted },
   );
+}
+
+/** The calibration the camera came from: its record, and what its relative uncertainty does to every d and a. */
+function calibrationSection(w: ReportWriter, result: AnalysisResult, calibration: ReportCalibration | null): void {
+  w.heading('Camera calibration', 110);
+  const cam = result.camera;
+  if (!calibration) {
+    w.paragraph(
+      cam.calibrated
+        ? `Calibrated camera (${cam.source}): L/p = ${concise(cam.cameraLengthPx, cam.cameraLengthSigmaPx)} px. The calibration's record was not supplied to the report.`
+        : `None: the camera is nominal (${cam.source}), L/p = ${concise(cam.cameraLengthPx, cam.cameraLengthSigmaPx)} px${cam.cameraLengthSigmaPx > 0 ? '' : ', taken as exact'}. d-spacings and lattice constants carry the nominal camera's error, which this report does not know.`,
+      { size: 8.5 },
+    );
+    return;
+  }
+  const rel = calibration.cameraLengthSigmaPx / calibration.cameraLengthPx;
+  const d = calibration.details;
+  const rows: Array<[string, string, ('mono' | 'bold')?]> = [
+    ['Name', calibration.name, 'bold'],
+    ['Instrument', calibration.instrument ?? 'not recorded'],
+    ['Made', `${calibration.date}, on ${calibration.standard}`],
+    ['L/p', `${concise(calibration.cameraLengthPx, calibration.cameraLengthSigmaPx)} px (relative standard uncertainty ${(rel * 1e6).toFixed(1)} ppm, carried into every d and a of this report)`],
+  ];
+  if (d) {
+    const setting = [`${Number((d.voltageV / 1e3).toPrecision(6))} kV`, d.nominalCameraLengthM !== null ? `nominal camera length ${Number(d.nominalCameraLengthM.toPrecision(6))} m` : null, d.pixelSizeM !== null ? `pixel ${Number((d.pixelSizeM * 1e6).toPrecision(6))} µm` : null]
+      .filter(Boolean)
+      .join(', ');
+    rows.push(['Setting', setting]);
+    if (d.nominalCameraLengthM !== null && d.pixelSizeM !== null) {
+      const nominalPx = d.nominalCameraLengthM / d.pixelSizeM;
+      rows.push(['Against nominal', `fitted L/p is ${signedPercent(calibration.cameraLengthPx / nominalPx - 1)} from the nominal ${nominalPx.toFixed(1)} px`]);
+    }
+    if (d.distortion) {
+      const q = d.distortion;
+      rows.push(['Distortion', `q = ${concise(q.axisRatio, q.axisRatioSigma)}, major axis at ${q.angleSigmaDeg === null ? 'an undetermined angle' : `${concise(q.angleDeg, q.angleSigmaDeg)}°`}`]);
+    }
+    rows.push([
+      'Fit',
+      `${d.ringsUsed} ring${d.ringsUsed === 1 ? '' : 's'} from ${d.imageCount} image${d.imageCount === 1 ? '' : 's'}${d.rmsResidualPpm !== null ? `, residuals ${d.rmsResidualPpm.toFixed(0)} ppm of d (root mean square)` : ''}; ${d.ringsRejected} rejected`,
+    ]);
+  }
+  const wantCamera = Math.abs(cam.cameraLengthPx / calibration.cameraLengthPx - 1) > 1e-9;
+  if (wantCamera) rows.push(['Applied', `the analysis used L/p = ${concise(cam.cameraLengthPx, cam.cameraLengthSigmaPx)} px (${cam.source}), not this calibration's value: check which camera was applied`]);
+  keyValues(w, rows);
+  if (d && d.residuals.length) {
+    w.y += 3;
+    w.table(
+      [
+        { title: 'hkl', width: 60 },
+        { title: 'd (Å)', width: 80, align: 'right' },
+        { title: 'residual (ppm of d)', width: 100, align: 'right' },
+      ],
+      d.residuals.map((r) => [hklText(r.hkl), r.dA.toFixed(5), (r.residualPpm >= 0 ? '+' : '') + r.residualPpm.toFixed(0)]),
+      { size: 7.5 },
+    );
+  }
+  if (d && d.rejected.length) w.bullets(d.rejected.map((r) => `rejected: ${r}`), { size: 8 });
 }
 
 function checkDetails(w: ReportWriter, check: FilmCheck): void {
@@ -419,7 +498,7 @@ function checkDetails(w: ReportWriter, check: FilmCheck): void {
       [
         { title: 'd (Å)', width: 70, align: 'right' },
         { title: 'SNR', width: 44, align: 'right' },
-        { title: 'library phases that could explain it', width: 401 },
+        { title: 'library phases that could explain it', width: 397 },
       ],
       check.unexplainedRings.map((u) => [u.dA.toFixed(4), u.snr.toFixed(0), u.candidates.join(', ') || 'none in the library']),
     );
@@ -524,6 +603,7 @@ export async function buildAnalysisReport(input: AnalysisReportInput): Promise<U
   ringTable(w, result);
   candidateTable(w, result);
   if (check) checkDetails(w, check);
+  calibrationSection(w, result, input.calibration ?? null);
   textSections(w, result);
   cautionsAndSignOff(w);
 

@@ -9,6 +9,7 @@
 import { createHash } from 'node:crypto';
 import { loadOpenCv } from '../../../../../app/node/load-opencv';
 import type { ReportCalibration } from '../../../../../app/common/report';
+import type { CalibrationRecord } from '../../../../../app/node/store';
 import { calibrateCamera, type CameraCalibration } from '../../../../../core/calibration';
 import { findPhase, phaseLibrary } from '../../../../../core/crystal';
 import type { Raster } from '../../../../../core/image/raster';
@@ -85,4 +86,34 @@ export function checkedTinFilm(calibration: CameraCalibration, seed: number, ext
     source: 'calibration TEM2-200kV-0.8m',
   });
   return { ...film, check: checkFilm(film.result, tin, { tolerance: 0.005, library: phaseLibrary() }) };
+}
+
+/**
+ * The gold calibration as the lab store would hold it (app/node/store CalibrationRecord),
+ * for tests of what reads the store's records: the fit's kept rings as residuals, its
+ * rejected rings with their reason, one image fingerprint.
+ */
+export function calibrationRecordOf(calibration: CameraCalibration, name = 'TEM2-200kV-0.8m'): CalibrationRecord {
+  const kept = calibration.residuals.filter((r) => !r.rejected);
+  return {
+    name,
+    instrument: 'TEM-2 north bay',
+    voltageV: calibration.voltageV,
+    nominalCameraLengthM: 0.8,
+    pixelSizeM: 0.8 / NOMINAL_LP,
+    created: '2026-03-02T09:15:00.000Z',
+    standardPhaseId: calibration.standardPhaseId,
+    cameraLengthPx: calibration.cameraLengthPx,
+    cameraLengthSigmaPx: calibration.cameraLengthSigmaPx,
+    axisRatio: calibration.distortion.axisRatio,
+    axisRatioSigma: calibration.distortion.axisRatioSigma,
+    angleDeg: calibration.distortion.angleDeg,
+    angleSigmaDeg: calibration.distortion.angleSigmaDeg,
+    residuals: kept.map((r) => ({ hkl: r.hkl, dA: r.dFitA, residualPpm: r.residualPpm, radiusPx: r.radiusPx, image: r.imageIndex })),
+    imageFingerprints: [{ sha256: 'ab'.repeat(32), path: 'standards/au-0302.tif' }],
+    rejectedRings: calibration.residuals
+      .filter((r) => r.rejected)
+      .map((r) => ({ hkl: r.hkl, dA: r.dFitA, radiusPx: r.radiusPx, residualPpm: r.residualPpm, image: r.imageIndex, reason: 'outlier by the fit rule' })),
+    notes: '',
+  };
 }

@@ -1,0 +1,152 @@
+/**
+ * Cameras from calibrations, for the commands: fitting one on a standard's rings
+ * (`calibrate`, and an internal standard in `analyze`), and turning a stored
+ * calibration into the camera of a later analysis (`analyze --calibration`, `check`).
+ */
+import { calibrateCamera, type CalibrationOutcome, type CameraCalibration } from '../../core/calibration';
+import { predictRings, type Phase } from '../../core/crystal';
+import { electronWavelengthA, ringRadiusPx } from '../../core/physics';
+import { reindexAnalysis, type AnalysisCamera, type AnalysisResult } from '../../core/pipeline';
+import type { CalibrationRecord, LabStore } from '../node/store';
+import { LabStoreError } from '../node/store';
+import { InputError, UsageError } from './exit-codes';
+import { kilovolts } from './number-format';
+
+/**
+ * Smallest d the standard's predicted rings go down to on the first pass (Å). core's
+ * calibrateCamera predicts the standard's rings down to 0.9 x the smallest measured d,
+ * so on a camera of unknown length the analyses are first given one that puts the
+ * outermost ring at this d: every measured ring is then inside the predicted list.
+ */
+const FIRST_PASS_D_MIN_A = 0.3;
+
+/** The same analyses seen through a camera of length `cameraLengthPx` (d recomputed; nothing indexed). */
+function throughCamera(analyses: readonly AnalysisResult[], cameraLengthPx: number, source: string): AnalysisResult[] {
+  return analyses.map((a) =>
+    a.rings.length === 0 ? a : reindexAnalysis(a, { voltageV: a.voltageV, cameraLengthPx, cameraLengthSigmaPx: 0, source, calibrated: false }, [], { ringIndices: [] }),
+  );
+}
+
+/**
+ * Fits the camera on the standard's rings of `analyses`, in two passes: the first with the
+ * outermost ring put at d = 0.3 Å (so the standard's predicted rings cover every measured
+ * ring whatever camera the analyses were made with), the second with the analyses seen
+ * through the first pass's camera (so the predicted list ends just beyond the outermost
+ * ring, as calibrateCamera intends). Both passes use the nominal camera length when one is
+ * given (assignment window and the > 5 % warning).
+ * @param analyses analyses of the standard at one voltage (any camera: only radii are used)
+ */
+export function fitCameraOnStandard(analyses: readonly AnalysisResult[], standard: Phase, nominalCameraLengthPx: number | null): CalibrationOutcome {
+  const options = nominalCameraLengthPx ? { nominalCameraLengthPx } : {};
+  const outermost = Math.max(0, ...analyses.flatMap((a) => a.rings.map((r) => r.radiusPx)));
+  if (!(outermost > 0)) return calibrateCamera(analyses, standard, options);
+  const lambda = electronWavelengthA(analyses[0]!.voltageV);
+  // R = (L/p) tan(2 asin(lambda / 2d)): the L/p that puts the outermost ring at d = FIRST_PASS_D_MIN_A.
+  const wide = outermost / Math.tan(2 * Math.asin(lambda / (2 * FIRST_PASS_D_MIN_A)));
+  const first = calibrateCamera(throughCamera(analyses, wide, 'first pass'), standard, options);
+  if (!first.ok) return first;
+  return calibrateCamera(throughCamera(analyses, first.calibration.cameraLengthPx, 'second pass'), standard, options);
+}
+
+/**
+ * The standard's strongest ring (highest relativeIntensity) must be among the matched rings
+ * of every image whose measured range holds it (from the profile's inner edge to the
+ * outermost ring): a film that lacks it is not the standard, or the fit matched another
+ * phase's rings under a wrong camera (cubic ring sequences alias one another at cameras a
+ * factor sqrt 2 a1 / a2 apart).
+ * @returns one sentence per image that lacks it
+ */
+export function missingStrongestStandardRing(fit: CameraCalibration, analyses: readonly AnalysisResult[], standard: Phase): string[] {
+  const camera = { wavelengthA: fit.wavelengthA, cameraLengthPx: fit.cameraLengthPx };
+  const problems: string[] = [];
+  analyses.forEach((a, image) => {
+    if (a.rings.length === 0) return;
+    const outermost = Math.max(...a.rings.map((r) => r.radiusPx));
+    const rings = predictRings(standard, { dMinA: Math.max(0.3, 0.9 * fit.wavelengthA / (2 * Math.sin(Math.atan2(outermost, fit.cameraLengthPx) / 2))) });
+    if (rings.length === 0) return;
+    const strongest = rings.reduce((best, r) => (r.relativeIntensity > best.relativeIntensity ? r : best));
+    const radiusPx = ringRadiusPx(strongest.dA, camera);
+    if (radiusPx < a.profile.rMinPx || radiusPx > outermost * 1.002) return;
+    const matched = fit.residuals.some((r) => r.imageIndex === image && !r.rejected && Math.abs(r.dRefA / strongest.dA - 1) < 1e-9);
+    if (!matched) {
+      problems.push(
+        `image ${image + 1}: ${standard.id}'s strongest ring (${strongest.families.map((f) => f.hkl.join(' ')).join(' + ')}, d = ${strongest.dA.toFixed(4)} Å) would lie at R = ${radiusPx.toFixed(1)} px under the fitted camera (L/p = ${fit.cameraLengthPx.toFixed(1)} px), inside the measured range, but no ring was measured there`,
+      );
+    }
+  });
+  return problems;
+}
+
+/** The camera of a fit, for the analysis it calibrates. */
+export function cameraFromFit(fit: CameraCalibration, source: string): AnalysisCamera {
+  return { voltageV: fit.voltageV, cameraLengthPx: fit.cameraLengthPx, cameraLengthSigmaPx: fit.cameraLengthSigmaPx, source, calibrated: true };
+}
+
+/**
+ * Looks up a calibration by name.
+ * @throws UsageError when the store has none of that name (listing what it has); InputError for a store problem
+ */
+export async function findStoredCalibration(store: LabStore, name: string): Promise<CalibrationRecord> {
+  let record: CalibrationRecord | null;
+  let names: string[] = [];
+  try {
+    record = await store.findCalibration(name);
+    if (!record) names = (await store.listCalibrations()).map((c) => c.name);
+  } catch (error) {
+    if (error instanceof LabStoreError) throw new InputError(error.message);
+    throw error;
+  }
+  if (record) return record;
+  const known = names.length ? `; it holds ${names.slice(-8).map((n) => `"${n}"`).join(', ')}${names.length > 8 ? ` and ${names.length - 8} more` : ''}` : '; it holds no calibrations yet';
+  throw new UsageError(`--calibration: no calibration "${name}" in the lab store ${store.path}${known}; list them with annula calibrations, or make one with annula calibrate --save`);
+}
+
+/**
+ * The camera of a stored calibration for an image taken at `voltageV` (null: the
+ * calibration's own voltage). A calibration holds only at its own voltage.
+ * @throws UsageError when the voltages differ
+ */
+export function cameraFromRecord(record: CalibrationRecord, voltageV: number | null, voltageFrom: string): AnalysisCamera {
+  if (voltageV !== null && Math.abs(voltageV / record.voltageV - 1) > 1e-6) {
+    throw new UsageError(
+      `calibration "${record.name}" was made at ${kilovolts(record.voltageV)} kV, but ${voltageFrom} says ${kilovolts(voltageV)} kV; a camera calibration holds only at its own voltage: use a calibration made at ${kilovolts(voltageV)} kV, or correct the voltage`,
+    );
+  }
+  return {
+    voltageV: record.voltageV,
+    cameraLengthPx: record.cameraLengthPx,
+    cameraLengthSigmaPx: record.cameraLengthSigmaPx,
+    source: `calibration "${record.name}" (${record.standardPhaseId}, ${record.created.slice(0, 10)}${record.instrument ? `, ${record.instrument}` : ''})`,
+    calibrated: true,
+  };
+}
+
+/** Smallest of the angle differences a - b and its turns by 180 degrees (an ellipse's axis has no sign), degrees. */
+function axisAngleDifferenceDeg(a: number, b: number): number {
+  const d = (((a - b) % 180) + 180) % 180;
+  return d > 90 ? d - 180 : d;
+}
+
+/** Standardised differences larger than this are reported (3 sigma: common practice for a consistency check). */
+const DISTORTION_Z_LIMIT = 3;
+
+/**
+ * A warning when the image's own distortion fit differs from the calibration's beyond the
+ * combined uncertainty: z = |x1 - x2| / sqrt(s1^2 + s2^2) > 3 for the axis ratio, and for
+ * the major-axis angle when both fits determine it. Null when they agree or cannot be compared.
+ */
+export function distortionDisagreement(result: AnalysisResult, record: CalibrationRecord): string | null {
+  const d = result.distortion;
+  if (result.status !== 'ok' || !(d.axisRatioSigma > 0)) return null;
+  const problems: string[] = [];
+  const qSigma = Math.hypot(d.axisRatioSigma, record.axisRatioSigma);
+  const qZ = Math.abs(d.axisRatio - record.axisRatio) / qSigma;
+  if (qSigma > 0 && qZ > DISTORTION_Z_LIMIT) problems.push(`axis ratio ${d.axisRatio.toFixed(5)} against ${record.axisRatio.toFixed(5)} (${qZ.toFixed(1)} sigma)`);
+  if (d.angleSigmaDeg !== null && record.angleSigmaDeg !== null) {
+    const aSigma = Math.hypot(d.angleSigmaDeg, record.angleSigmaDeg);
+    const aZ = Math.abs(axisAngleDifferenceDeg(d.angleDeg, record.angleDeg)) / aSigma;
+    if (aSigma > 0 && aZ > DISTORTION_Z_LIMIT) problems.push(`major axis at ${d.angleDeg.toFixed(2)} deg against ${record.angleDeg.toFixed(2)} deg (${aZ.toFixed(1)} sigma)`);
+  }
+  if (problems.length === 0) return null;
+  return `the image's elliptical distortion differs from that of calibration "${record.name}" beyond their uncertainties: ${problems.join('; ')}; the image's own fit was used, but check that the microscope was at the calibration's settings (projector lenses, camera length)`;
+}
