@@ -11,6 +11,10 @@ export interface DesktopBuildConfig {
   productName: string;
   directories: { output: string; buildResources: string };
   files: string[];
+  /** package.json fields the packaged app gets (its entry point). */
+  extraMetadata: { main: string };
+  /** Protocol the OS hands to the app: none; the workspace scheme is internal (annula://workspace). */
+  protocols: never[];
   linux: { target: string[]; category: string };
   win: { target: string[] };
   mac: { target: string[]; category: string; hardenedRuntime: boolean };
@@ -20,7 +24,11 @@ const config: DesktopBuildConfig = {
   appId: 'org.annula.desktop',
   productName: 'Annula',
   directories: { output: 'out/desktop', buildResources: 'app/electron/resources' },
-  files: ['out/renderer/**', 'out/electron/**', 'package.json'],
+  // The built renderer and main process, the bundled demo samples (opened on first launch);
+  // production dependencies (zod, sql.js, mathjs, opencv-wasm...) are added by the packager.
+  files: ['out/renderer/**', 'out/electron/**', 'samples/*/sample.json', 'samples/*/*.tif', 'package.json'],
+  extraMetadata: { main: 'out/electron/main.js' },
+  protocols: [],
   linux: { target: ['AppImage', 'deb'], category: 'Science' },
   win: { target: ['nsis'] },
   mac: { target: ['dmg'], category: 'public.app-category.education', hardenedRuntime: true },

@@ -14,6 +14,7 @@ import { registerHistory } from './commands/history';
 import { registerIndex } from './commands/index-rings';
 import { registerPhases } from './commands/phases';
 import { registerRings } from './commands/rings';
+import { registerServe } from './commands/serve';
 import { registerSimulate } from './commands/simulate';
 import { registerWavelength } from './commands/wavelength';
 
@@ -51,6 +52,7 @@ function buildProgram(io: CliIo): Command {
   registerCalibrations(program, io);
   registerCheck(program, io);
   registerHistory(program, io);
+  registerServe(program, io);
   for (const sub of program.commands) {
     sub.exitOverride().showHelpAfterError(`(run annula ${sub.name()} --help for usage)`);
     sub.configureOutput(program.configureOutput());

@@ -1,0 +1,109 @@
+/**
+ * The backend contract shared by every transport (loopback HTTP, Electron IPC) and the
+ * renderer. Types only and plain data: this file imports nothing at run time, so the
+ * renderer may `import type` from it without pulling Node code into the browser bundle.
+ *
+ * A handler's result is JSON-able data, or JSON-able metadata with one byte payload
+ * (`BytesResult`): HTTP sends the bytes as the body and the metadata in a header, IPC
+ * passes both through the structured clone unchanged.
+ */
+
+/** Why a handler refused or failed; transports map these to HTTP statuses. */
+export type HandlerErrorCode =
+  | 'invalid-input' // the request does not match the handler's schema
+  | 'unknown-handler' // no handler of that name
+  | 'not-allowed' // e.g. a path the user did not choose
+  | 'not-found' // a sample, calibration or file that is not there
+  | 'unreadable' // a file or store that cannot be read
+  | 'not-available' // planned, not in this version (the message says which command does it)
+  | 'internal'; // a defect in Annula
+
+/** An error as it crosses a transport: what is wrong and what to do, and both joined. */
+export interface HandlerErrorData {
+  code: HandlerErrorCode;
+  /** What is wrong. */
+  problem: string;
+  /** What to do about it. */
+  action: string;
+  /** `<problem>; <action>`, ready to show. */
+  message: string;
+}
+
+/** Metadata with one byte payload (an image file's bytes). */
+export interface BytesResult<M> {
+  meta: M;
+  bytes: Uint8Array;
+}
+
+/** The camera a sample or an image comes with, as the user would type it ("200kV", "0.8m", "28um"). */
+export interface CameraText {
+  voltage: string;
+  cameraLength: string;
+  pixelSize: string;
+}
+
+export interface SampleSummary {
+  /** Folder name under samples/, e.g. "gold-standard". */
+  id: string;
+  title: string;
+  scenario: string;
+  camera: CameraText | null;
+  expected: { phase: string; aA: number } | null;
+}
+
+export interface ImageFileMeta {
+  /** File name shown to the user (no folders). */
+  name: string;
+  byteLength: number;
+  /** SHA-256 of the bytes, 64 hex digits (FIPS 180-4), for the lab's records. */
+  sha256: string;
+}
+
+export interface SampleImageMeta extends ImageFileMeta {
+  sample: SampleSummary;
+}
+
+/** A calibration as the workspace lists it (a subset of the store's record). */
+export interface CalibrationSummary {
+  name: string;
+  instrument: string | null;
+  voltageV: number;
+  nominalCameraLengthM: number | null;
+  pixelSizeM: number | null;
+  created: string;
+  standardPhaseId: string;
+  cameraLengthPx: number;
+  cameraLengthSigmaPx: number;
+  axisRatio: number;
+  angleDeg: number;
+}
+
+export interface CalibrationList {
+  /** Where the store is (absolute path) and whether a file is there yet. */
+  storePath: string;
+  storeFound: boolean;
+  calibrations: CalibrationSummary[];
+}
+
+/** Inputs and outputs of every handler, by name: the typed contract both sides use. */
+export interface HandlerMap {
+  'list-samples': { input: Record<string, never>; output: SampleSummary[] };
+  'read-sample': { input: { id: string }; output: BytesResult<SampleImageMeta> };
+  'read-chosen-image': { input: { path: string }; output: BytesResult<ImageFileMeta> };
+  'fingerprint-image': { input: { name: string; bytes: Uint8Array }; output: ImageFileMeta };
+  'list-calibrations': { input: { instrument?: string; voltageV?: number }; output: CalibrationList };
+  'find-calibration': { input: { name: string }; output: CalibrationSummary };
+}
+
+export type HandlerName = keyof HandlerMap;
+
+/**
+ * Handlers the calibration and check flows add (issue 4's save-calibration, record-check
+ * and write-report): named here so every transport answers them with 'not-available'
+ * and a pointer to the CLI command until they are wired in.
+ */
+export const PLANNED_HANDLERS: Readonly<Record<string, string>> = {
+  'save-calibration': 'annula calibrate',
+  'record-check': 'annula check',
+  'write-report': 'annula analyze --out (reports come with the check flow)',
+};

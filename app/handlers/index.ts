@@ -1,0 +1,37 @@
+/**
+ * The backend handlers, written once and served by app/server (loopback HTTP) and
+ * app/electron (IPC). Add a handler here and both transports serve it.
+ *
+ * Issue 4's save-calibration, record-check and write-report go into BACKEND_HANDLERS
+ * when their functions land; until then PLANNED_HANDLERS makes every transport answer
+ * them with 'not-available' and the CLI command that does the job.
+ */
+import { findCalibration, listCalibrations } from './calibration-handlers';
+import type { HandlerName } from './contract';
+import type { Handler } from './handler';
+import { HandlerError } from './handler-error';
+import { fingerprintImage, readChosenImage } from './image-handlers';
+import { listSamples, readSample } from './sample-handlers';
+import { PLANNED_HANDLERS } from './contract';
+
+export type { HandlerContext, Handler } from './handler';
+export { defineHandler, parseHandlerInput, runHandler } from './handler';
+export { HandlerError, toHandlerErrorData } from './handler-error';
+export { MAX_IMAGE_BYTES } from './image-handlers';
+export * from './contract';
+
+export const BACKEND_HANDLERS: readonly Handler[] = [listSamples, readSample, readChosenImage, fingerprintImage, listCalibrations, findCalibration] as unknown as Handler[];
+
+/**
+ * The handler called `name`.
+ * @throws HandlerError 'not-available' for a planned handler, 'unknown-handler' otherwise
+ */
+export function findHandler(name: string, handlers: readonly Handler[] = BACKEND_HANDLERS): Handler {
+  const found = handlers.find((h) => h.name === name);
+  if (found) return found;
+  const planned = PLANNED_HANDLERS[name];
+  if (planned) throw new HandlerError('not-available', `${name} is not in this version of the workspace yet`, `use the command line for now: ${planned}`);
+  throw new HandlerError('unknown-handler', `there is no backend function "${name.slice(0, 60)}"`, `the workspace and the backend are from different versions: reload (known: ${handlers.map((h) => h.name).join(', ')})`);
+}
+
+export type { HandlerName };

@@ -1,0 +1,39 @@
+/** The desktop app's backend: the preload's named functions (app/electron/preload.ts). */
+import type { BytesResult, HandlerErrorData, ImageFileMeta } from '../../handlers/contract';
+import { BackendError, type Backend } from './backend';
+
+type Envelope<T> = { ok: true; value: T } | { ok: false; error: HandlerErrorData };
+type Call = (input?: unknown) => Promise<Envelope<unknown>>;
+
+interface DesktopBridge {
+  listSamples: Call;
+  readSample: Call;
+  fingerprintImage: Call;
+  listCalibrations: Call;
+  findCalibration: Call;
+  openImageDialog: () => Promise<Envelope<unknown>>;
+  onMenuCommand(listener: (command: string) => void): () => void;
+}
+
+async function unwrap<T>(p: Promise<Envelope<unknown>>): Promise<T> {
+  const r = await p;
+  if (!r.ok) throw new BackendError(r.error);
+  return r.value as T;
+}
+
+export function desktopBridge(): DesktopBridge | null {
+  return (globalThis as { annulaDesktop?: DesktopBridge }).annulaDesktop ?? null;
+}
+
+export function desktopBackend(bridge: DesktopBridge): Backend {
+  return {
+    kind: 'desktop',
+    listSamples: () => unwrap(bridge.listSamples()),
+    readSample: (id) => unwrap(bridge.readSample({ id })),
+    fingerprintImage: (name, bytes) => unwrap(bridge.fingerprintImage({ name, bytes })),
+    listCalibrations: () => unwrap(bridge.listCalibrations({})),
+    findCalibration: (name) => unwrap(bridge.findCalibration({ name })),
+    openImageDialog: () => unwrap<BytesResult<ImageFileMeta> | null>(bridge.openImageDialog()),
+    onMenuCommand: (listener) => bridge.onMenuCommand(listener),
+  };
+}
