@@ -7,6 +7,7 @@
  */
 import { readFile, stat } from 'node:fs/promises';
 import { join } from 'node:path';
+import type { CameraUncertaintyBudget } from '../../core/calibration';
 import type { Hkl, Phase } from '../../core/crystal';
 import { analyze, type AnalysisCamera, type AnalysisResult, type AnalysisStage } from '../../core/pipeline';
 import { parseMaskPolygons, type MaskPolygon } from '../../core/rings';
@@ -256,6 +257,12 @@ export type AnalysisOutput = Omit<AnalysisResult, 'image'> & {
   calibration: string | null;
   /** The internal standard the camera was fitted on in this image, or null. */
   internalStandard: InternalStandardSummary | null;
+  /**
+   * The calibrated camera's uncertainty budget (relative standard uncertainties: fit, the
+   * standard's reference a, the transfer to this image, and their root sum of squares, which
+   * is camera.cameraLengthSigmaPx / camera.cameraLengthPx); null for a nominal camera.
+   */
+  cameraUncertainty: CameraUncertaintyBudget | null;
 };
 
 /**
@@ -266,7 +273,7 @@ export type AnalysisOutput = Omit<AnalysisResult, 'image'> & {
 export function analysisOutput(
   analysis: ImageAnalysis,
   imagePath: string,
-  extras: { calibration?: string | null; internalStandard?: InternalStandardSummary | null; extraWarnings?: readonly string[] } = {},
+  extras: { calibration?: string | null; internalStandard?: InternalStandardSummary | null; cameraUncertainty?: CameraUncertaintyBudget | null; extraWarnings?: readonly string[] } = {},
 ): AnalysisOutput {
   const { image: imageSummary, voltageV, wavelengthA, camera, ...rest } = analysis.result;
   return {
@@ -276,6 +283,7 @@ export function analysisOutput(
     camera,
     calibration: extras.calibration ?? null,
     internalStandard: extras.internalStandard ?? null,
+    cameraUncertainty: extras.cameraUncertainty ?? null,
     ...rest,
     warnings: [...analysis.image.info.warnings, ...(extras.extraWarnings ?? []), ...rest.warnings],
   };

@@ -20,6 +20,7 @@
 import { mkdir, readFile, stat } from 'node:fs/promises';
 import { basename, extname, join } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
+import type { CameraUncertaintyBudget } from '../../core/calibration/camera-uncertainty-budget';
 import type { Phase } from '../../core/crystal/phase';
 import { findPhase } from '../../core/crystal';
 import type { Raster } from '../../core/image/raster';
@@ -32,7 +33,11 @@ import { UsageError } from './exit-codes';
 import { refuseExisting, writeOutput } from './output-files';
 
 /** An analysis as `annula analyze --json` prints it: the AnalysisResult, its image with the file's path and SHA-256. */
-export type AnalysisOutput = Omit<AnalysisResult, 'image'> & { image: AnalysisResult['image'] & { path: string; sha256: string } };
+export type AnalysisOutput = Omit<AnalysisResult, 'image'> & {
+  image: AnalysisResult['image'] & { path: string; sha256: string };
+  /** The calibrated camera's uncertainty budget (image-analysis.ts), for the report's calibration section. */
+  cameraUncertainty?: CameraUncertaintyBudget | null;
+};
 
 export interface ReportFilesInput {
   /** The analysis (the object analyze prints with --json). */
@@ -184,7 +189,7 @@ export async function writeReportFiles(dir: string, input: ReportFilesInput, opt
   await ensureFolder(dir);
 
   const calibration = input.calibration ? reportCalibration(input.calibration) : null;
-  const { image, ...rest } = analysis;
+  const { image, cameraUncertainty, ...rest } = analysis;
   const result: AnalysisResult = { ...rest, image: { width: image.width, height: image.height, bitsPerSample: image.bitsPerSample } };
   const pdf = await buildAnalysisReport({
     result,
@@ -192,6 +197,7 @@ export async function writeReportFiles(dir: string, input: ReportFilesInput, opt
     mask: input.mask ?? null,
     check: check ?? null,
     calibration,
+    cameraUncertainty: cameraUncertainty ?? null,
     sampleId: input.sampleId?.trim() ? input.sampleId : basename(image.path),
     operator: input.operator ?? null,
     image: { path: image.path, sha256: image.sha256 },

@@ -1,4 +1,6 @@
-/** Camera calibration on a standard film (or an internal standard), in the exact geometry. */
+/** Camera calibration on a standard film (or an internal standard), in the exact geometry, and its uncertainty budget. */
 export * from './camera-length-fit';
 export * from './standard-ring-assignment';
 export * from './camera-calibration';
+export * from './standard-reference-uncertainty';
+export * from './camera-uncertainty-budget';

@@ -13,7 +13,11 @@
  *                 tolerance can never pass).
  * The lattice constant is that of the expected phase matched alone to the
  * rings (isotropic scale refined within the strain window), its uncertainty
- * including the camera calibration's.
+ * including the camera calibration's: the relative standard uncertainty of the
+ * camera length (camera.cameraLengthSigmaPx / cameraLengthPx), which for a
+ * calibrated camera is its whole budget (fit, the standard's reference lattice
+ * constant, the transfer to this image; core/calibration camera-uncertainty-budget.ts),
+ * enters once, in quadrature with the fit of a (phase matching's calibrationRelativeSigma).
  *
  * Further reasons, each of which overrides a pass:
  *  - the expected phase explains fewer than 3 rings: fail (the pattern is not
@@ -26,6 +30,7 @@
  *    the tolerance).
  * The verdict supports the lab's review; it does not replace it.
  */
+import type { CameraUncertaintyBudget } from '../calibration/camera-uncertainty-budget';
 import type { Phase } from '../crystal/phase';
 import { matchPhases, type MeasuredRing } from '../indexing';
 import type { AnalysisResult } from '../pipeline/analysis-result';
@@ -43,6 +48,21 @@ export interface FilmCheckOptions {
   secondPhaseSnr?: number;
   /** Missing predicted rings at least this strong (relativeIntensity) count; default 20. */
   missingStrength?: number;
+  /** The calibrated camera's budget, to name its largest term when U is wider than the tolerance (optional; U comes from the analysis's camera either way). */
+  cameraUncertainty?: CameraUncertaintyBudget;
+}
+
+/** What to do when U is wider than the tolerance, by the largest term of the camera's budget. */
+function wideUncertaintyAdvice(budget: CameraUncertaintyBudget | undefined, k: number, U: number): string {
+  if (!budget) return 'calibrate more carefully or measure more rings';
+  const terms: Array<[number, string]> = [
+    [budget.reproducibilityRelative, `the camera's reproducibility between images (${pct(budget.reproducibilityRelative)}) dominates: control the specimen height and focus and give the lab's own figure with --camera-reproducibility, or use an internal standard on the same image`],
+    [budget.referenceRelative, `the standard's reference lattice constant (${pct(budget.referenceRelative)}) dominates: use a certified standard with a stated uncertainty`],
+    [budget.fitRelative, `the calibration fit (${pct(budget.fitRelative)}) dominates: calibrate on more or stronger rings`],
+  ];
+  const [largest, words] = terms.reduce((a, b) => (b[0] > a[0] ? b : a));
+  // Only when the camera's part of U (k u_camera) is most of it; otherwise the rings of this film limit a.
+  return k * budget.totalRelative >= 0.5 * U && largest > 0 ? words : 'measure more rings, or longer exposures';
 }
 
 export interface FilmCheck {
@@ -99,7 +119,7 @@ export function checkFilm(analysis: AnalysisResult, expected: Phase, options: Fi
   let verdict: Verdict;
   if (U > T) {
     verdict = 'inconclusive';
-    reasons.push(`the expanded uncertainty of a (${pct(U)}, k = ${k}) is wider than the tolerance (${pct(T)}): the measurement cannot decide; calibrate more carefully or measure more rings`);
+    reasons.push(`the expanded uncertainty of a (${pct(U)}, k = ${k}) is wider than the tolerance (${pct(T)}): the measurement cannot decide; ${wideUncertaintyAdvice(options.cameraUncertainty, k, U)}`);
   } else if (Math.abs(delta) + U <= T) {
     verdict = 'pass';
     reasons.push(`a = ${match.aA.toFixed(5)} Å deviates ${pct(delta)} from ${expected.cell.aA} Å; with its expanded uncertainty (${pct(U)}) it lies inside the tolerance of ${pct(T)}`);

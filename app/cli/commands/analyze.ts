@@ -1,13 +1,24 @@
 import { basename, extname, join } from 'node:path';
 import type { Command } from 'commander';
 import { stringify } from 'csv-stringify/sync';
+import { cameraUncertaintyBudget, standardReferenceUncertainty, type CameraUncertaintyBudget, type ReproducibilitySource } from '../../../core/calibration';
 import { formatHkl, type Phase } from '../../../core/crystal';
 import { reindexAnalysis, type AnalysisCamera, type AnalysisResult } from '../../../core/pipeline';
 import { parseQuantity, parseRelative } from '../../common/quantity';
 import type { ReportCalibration } from '../../common/report';
 import type { CalibrationRecord } from '../../node/store';
 import { addCameraOptions, readCameraFlags, type CameraFlags } from '../camera-options';
-import { cameraFromFit, cameraFromRecord, distortionDisagreement, findStoredCalibration, fitCameraOnStandard, missingStrongestStandardRing } from '../calibration-camera';
+import {
+  budgetForRecord,
+  budgetLine,
+  cameraFromFit,
+  cameraFromRecord,
+  distortionDisagreement,
+  findStoredCalibration,
+  fitCameraOnStandard,
+  missingStrongestStandardRing,
+  readCameraReproducibility,
+} from '../calibration-camera';
 import { printCandidates, printCaution } from '../candidate-report';
 import { printJson, type CliIo } from '../cli-io';
 import { NothingFoundError, UsageError } from '../exit-codes';
@@ -34,6 +45,7 @@ import { formatTable } from '../terminal-table';
 
 interface AnalyzeOptions extends CameraFlags, AnalysisShapeOptions {
   cameraSigma?: string;
+  cameraReproducibility?: string;
   calibration?: string;
   internalStandard?: string;
   store?: string;
@@ -43,6 +55,9 @@ interface AnalyzeOptions extends CameraFlags, AnalysisShapeOptions {
   force?: boolean;
   quiet?: boolean;
 }
+
+/** The default transfer term, as --help says it. */
+const CAMERA_REPRODUCIBILITY_DEFAULT_TEXT = '0.1% (assumes the eucentric height and standard focus, as for the standard: from memory)';
 
 /** Rows of the ring table, for CSV and for people. */
 export function ringRows(result: Pick<AnalysisResult, 'rings'>): Array<Record<string, string | number | null>> {
@@ -62,8 +77,9 @@ export function givenVoltage(flags: CameraFlags): number | null {
 
 /**
  * The camera for an analysis with a stored calibration: the record's camera, checked against
- * the voltage the command line or the sample folder gives. The camera flags of the command
- * line conflict with it (a sample folder's recorded nominal camera is simply not used).
+ * the voltage the command line or the sample folder gives, its uncertainty the whole budget
+ * (fit, the standard's reference a, the transfer term `reproducibility`). The camera flags of
+ * the command line conflict with it (a sample folder's recorded nominal camera is simply not used).
  */
 export async function calibrationCameraFor(
   name: string,
@@ -71,7 +87,9 @@ export async function calibrationCameraFor(
   flags: CameraFlags,
   commandFlags: CameraFlags,
   io: CliIo,
-): Promise<{ camera: AnalysisCamera; record: CalibrationRecord }> {
+  library: readonly Phase[],
+  reproducibility: { relative: number; source: ReproducibilitySource },
+): Promise<{ camera: AnalysisCamera; record: CalibrationRecord; budget: CameraUncertaintyBudget; warnings: string[] }> {
   const clash = (['cameraLength', 'pixelSize', 'scale'] as const).find((k) => commandFlags[k] !== undefined);
   if (clash) {
     const flag = { cameraLength: '--camera-length', pixelSize: '--pixel-size', scale: '--scale' }[clash];
@@ -82,7 +100,8 @@ export async function calibrationCameraFor(
   try {
     const record = await findStoredCalibration(store, name);
     const voltageV = givenVoltage(flags);
-    return { camera: cameraFromRecord(record, voltageV, flags.voltage === commandFlags.voltage ? '--voltage' : 'the sample folder'), record };
+    const { budget, warnings } = budgetForRecord(record, library, reproducibility);
+    return { camera: cameraFromRecord(record, voltageV, flags.voltage === commandFlags.voltage ? '--voltage' : 'the sample folder', budget), record, budget, warnings };
   } finally {
     await store.close();
   }
@@ -103,7 +122,7 @@ export function applyInternalStandard(
   standard: Phase,
   phases: readonly Phase[],
   nominalCameraLengthPx: number | null,
-): { result: AnalysisResult; summary: InternalStandardSummary; warnings: string[] } {
+): { result: AnalysisResult; summary: InternalStandardSummary; budget: CameraUncertaintyBudget; warnings: string[] } {
   const outcome = fitCameraOnStandard([result], standard, nominalCameraLengthPx);
   if (!outcome.ok) throw new NothingFoundError(`--internal-standard ${standard.id}: the camera could not be calibrated on its rings: ${outcome.reason}`);
   const fit = outcome.calibration;
@@ -111,7 +130,10 @@ export function applyInternalStandard(
   if (missing.length) throw new NothingFoundError(`--internal-standard ${standard.id}: the camera could not be calibrated on its rings: ${missing[0]!.replace(/^image 1: /, '')}; is ${standard.id} in this film? (check the nominal camera length too)`);
   const mine = fit.standardRings[0] ?? [];
   const others = result.rings.map((_, i) => i).filter((i) => !mine.includes(i));
-  const camera = cameraFromFit(fit, `internal standard ${standard.id} (rings ${ringList(mine)} of this image)`);
+  // Same image: no transfer term; the standard's reference a stays in (an internal standard removes
+  // the camera's drift between images, not the uncertainty of what the standard's lattice constant is).
+  const budget = cameraUncertaintyBudget(fit.cameraLengthSigmaPx / fit.cameraLengthPx, standardReferenceUncertainty({ id: standard.id, aA: standard.cell.aA }), { relative: 0, source: 'same image' });
+  const camera = cameraFromFit(fit, `internal standard ${standard.id} (rings ${ringList(mine)} of this image)`, budget);
   const reindexed = reindexAnalysis(result, camera, phases.filter((p) => p.id !== standard.id), { ringIndices: others });
   // The standard's rings keep its indices (residuals are in the order of standardRings for image 0).
   const residuals = fit.residuals.map((r, k) => ({ ringIndex: mine[k]!, hkl: r.hkl, residualPpm: r.residualPpm, rejected: r.rejected }));
@@ -135,6 +157,7 @@ export function applyInternalStandard(
   return {
     result: { ...reindexed, rings },
     summary: { phase: standard.id, ringIndices: mine, cameraLengthPx: fit.cameraLengthPx, cameraLengthSigmaPx: fit.cameraLengthSigmaPx, residuals },
+    budget,
     warnings,
   };
 }
@@ -150,7 +173,8 @@ export function registerAnalyze(program: Command, io: CliIo): void {
       false,
     ).option('--camera-sigma <value>', 'relative standard uncertainty of a nominal camera length, e.g. 1% (default: none, the camera is taken as exact and the result says so)'),
   )
-    .option('--calibration <name>', 'use the camera of this saved calibration (see annula calibrations); its uncertainty enters every d and a')
+    .option('--calibration <name>', 'use the camera of this saved calibration (see annula calibrations); its uncertainty budget enters every d and a')
+    .option('--camera-reproducibility <value>', `with --calibration: relative standard uncertainty of the camera length between images at the same settings (specimen height, focus, lens hysteresis), e.g. 0.3%; default ${CAMERA_REPRODUCIBILITY_DEFAULT_TEXT}; 0 only if written`)
     .option('--internal-standard <phase>', 'a known phase in the same film (e.g. Au): calibrate the camera on its rings in this image, then index the other rings')
     .option('--store <file>', STORE_OPTION_HELP)
     .option('--json', 'print the full result as JSON (stable keys; see README)')
@@ -162,7 +186,9 @@ export function registerAnalyze(program: Command, io: CliIo): void {
       'after',
       '\nd-spacings use the exact flat-detector geometry d = lambda / (2 sin(atan(R / L) / 2)).\n' +
         'The camera: --camera-length with --pixel-size (or --scale), a saved --calibration, or an --internal-standard.\n' +
-        'A nominal camera length is taken as exact unless --camera-sigma says otherwise: calibrate on a standard film for real uncertainties.\n\n' +
+        'A nominal camera length is taken as exact unless --camera-sigma says otherwise: calibrate on a standard film for real uncertainties.\n' +
+        'A calibrated camera\'s relative uncertainty is the root sum of squares (JCGM 100) of the fit, the standard\'s reference lattice\n' +
+        'constant (value, temperature under the beam, thin film) and, with --calibration, the transfer to this image (--camera-reproducibility).\n\n' +
         'Examples:\n  annula analyze film.tif --voltage 200kV --camera-length 1m --pixel-size 14um --phase Au\n' +
         '  annula analyze film.tif --voltage 200kV --calibration "TEM-2 200kV March"\n' +
         '  annula analyze film-on-gold.tif --voltage 200kV --camera-length 1m --pixel-size 14um --internal-standard Au',
@@ -174,6 +200,14 @@ export function registerAnalyze(program: Command, io: CliIo): void {
       if (opts.cameraSigma !== undefined && (opts.calibration !== undefined || opts.internalStandard !== undefined)) {
         throw new UsageError(`--camera-sigma is for a nominal camera; with ${opts.calibration !== undefined ? '--calibration' : '--internal-standard'} the uncertainty comes from the fit`);
       }
+      if (opts.cameraReproducibility !== undefined && opts.calibration === undefined) {
+        throw new UsageError(
+          opts.internalStandard !== undefined
+            ? '--camera-reproducibility is for a calibration carried over from another image; an --internal-standard is on this image, so there is no transfer term (its reference lattice constant still counts)'
+            : '--camera-reproducibility goes with --calibration <name>: it is the uncertainty of carrying a calibration over to this image; for a nominal camera use --camera-sigma',
+        );
+      }
+      const reproducibility = readCameraReproducibility(opts.cameraReproducibility);
       const input = await resolveImageInput(imageArg);
       const flags = withSampleCamera(opts, input);
       const shape = await readAnalysisShape(opts);
@@ -187,8 +221,12 @@ export function registerAnalyze(program: Command, io: CliIo): void {
       let camera: AnalysisCamera;
       let record: CalibrationRecord | null = null;
       let nominalLp: number | null = null;
+      let cameraUncertainty: CameraUncertaintyBudget | null = null;
       if (opts.calibration !== undefined) {
-        ({ camera, record } = await calibrationCameraFor(opts.calibration, opts.store, flags, opts, io));
+        const found = await calibrationCameraFor(opts.calibration, opts.store, flags, opts, io, shape.library, reproducibility);
+        ({ camera, record } = found);
+        cameraUncertainty = found.budget;
+        extraWarnings.push(...found.warnings);
         if (flags.voltage === undefined) extraWarnings.push(`no voltage was given: the calibration's ${kilovolts(camera.voltageV)} kV was assumed`);
       } else {
         const nominal = readCameraFlags(flags, standard === null);
@@ -211,13 +249,14 @@ export function registerAnalyze(program: Command, io: CliIo): void {
         const applied = applyInternalStandard(analysis.result, standard, shape.phases, nominalLp);
         analysis.result = applied.result;
         internalStandard = applied.summary;
+        cameraUncertainty = applied.budget;
         extraWarnings.push(...applied.warnings);
       }
       if (record) {
         const disagreement = distortionDisagreement(analysis.result, record);
         if (disagreement) extraWarnings.push(disagreement);
       }
-      const output = analysisOutput(analysis, input.imagePath, { calibration: record?.name ?? null, internalStandard, extraWarnings });
+      const output = analysisOutput(analysis, input.imagePath, { calibration: record?.name ?? null, internalStandard, cameraUncertainty, extraWarnings });
       const result = analysis.result;
 
       if (opts.out) await writeAnalysisFiles(outputs, output, opts.force ?? false);
@@ -275,8 +314,12 @@ export function printAnalysis(io: CliIo, r: AnalysisOutput, options: { caution?:
   if (r.internalStandard) {
     const s = r.internalStandard;
     io.out(
-      `Camera fitted on the internal standard ${s.phase}, rings ${ringList(s.ringIndices)}: L/p = ${withUncertainty(s.cameraLengthPx, s.cameraLengthSigmaPx)} px; residuals ${s.residuals.map((x) => `${formatHkl(x.hkl)} ${x.residualPpm.toFixed(0)} ppm${x.rejected ? ' (rejected)' : ''}`).join(', ')}`,
+      `Camera fitted on the internal standard ${s.phase}, rings ${ringList(s.ringIndices)}: L/p = ${withUncertainty(s.cameraLengthPx, s.cameraLengthSigmaPx)} px (fit alone); residuals ${s.residuals.map((x) => `${formatHkl(x.hkl)} ${x.residualPpm.toFixed(0)} ppm${x.rejected ? ' (rejected)' : ''}`).join(', ')}`,
     );
+  }
+  if (r.cameraUncertainty) {
+    io.out(`Uncertainty budget of the ${budgetLine(r.cameraUncertainty)}; it enters every d and a.`);
+    if (r.internalStandard) io.out(`The internal standard is on this image, so no camera drift between images enters; the uncertainty of ${r.internalStandard.phase}'s reference lattice constant does, and is what an internal standard cannot remove.`);
   }
   if (r.rings.length > 0) {
     io.out('');

@@ -1,11 +1,18 @@
 import type { Command } from 'commander';
-import type { CameraCalibration, RingResidual } from '../../../core/calibration';
+import {
+  cameraUncertaintyBudget,
+  DEFAULT_CAMERA_REPRODUCIBILITY_RELATIVE,
+  standardReferenceUncertainty,
+  type CameraCalibration,
+  type CameraUncertaintyBudget,
+  type RingResidual,
+} from '../../../core/calibration';
 import { formatHkl, type Phase } from '../../../core/crystal';
 import { dSpacingFromRadiusA } from '../../../core/physics';
 import type { AnalysisCamera, AnalysisResult } from '../../../core/pipeline';
 import { LabStoreError, type AddedCalibration, type LabStore, type NewCalibration } from '../../node/store';
 import { addCameraOptions, readCameraFlags, type CameraFlags, type CameraSettings } from '../camera-options';
-import { fitCameraOnStandard, missingStrongestStandardRing } from '../calibration-camera';
+import { budgetLine, fitCameraOnStandard, missingStrongestStandardRing } from '../calibration-camera';
 import { printJson, type CliIo } from '../cli-io';
 import { InputError, NothingFoundError, UsageError } from '../exit-codes';
 import {
@@ -237,6 +244,11 @@ export function registerCalibrate(program: Command, io: CliIo): void {
         const paths = inputs.map((x) => x.imagePath);
         const record = calibrationRecordOf(fit, analyses, paths, { name, instrument, standard, camera: first }, notes);
         const added = await save(store, record);
+        // What the camera's uncertainty will be when this calibration is applied to a later image at the default transfer term.
+        const budget = cameraUncertaintyBudget(fit.cameraLengthSigmaPx / fit.cameraLengthPx, standardReferenceUncertainty({ id: standard.id, aA: standard.cell.aA }), {
+          relative: DEFAULT_CAMERA_REPRODUCIBILITY_RELATIVE,
+          source: 'default',
+        });
         if (opts.json) {
           printJson(io, {
             calibration: added.calibration,
@@ -248,13 +260,14 @@ export function registerCalibrate(program: Command, io: CliIo): void {
               deviationFromNominal: fit.deviationFromNominal,
               outlierRule: OUTLIER_RULE,
               residuals: fit.residuals,
+              cameraUncertainty: budget,
             },
             instrumentAdded: added.instrumentAdded,
             drift: added.drift,
             warnings: notes,
           });
         } else {
-          printCalibration(io, standard, fit, added, paths, notes);
+          printCalibration(io, standard, fit, added, paths, notes, budget);
         }
         if (added.drift?.flagged) io.err(`warning: "${name}": ${added.drift.message}`);
       } finally {
@@ -286,7 +299,7 @@ export const CALIBRATION_CAUTION =
   "A calibration is only as good as the standard's lattice constant (check the library value against its source or the standard's certificate) " +
   "and holds only at the settings it was made at; follow the lab's own calibration procedures.";
 
-function printCalibration(io: CliIo, standard: Phase, fit: CameraCalibration, added: AddedCalibration, paths: readonly string[], notes: readonly string[]): void {
+function printCalibration(io: CliIo, standard: Phase, fit: CameraCalibration, added: AddedCalibration, paths: readonly string[], notes: readonly string[], budget: CameraUncertaintyBudget): void {
   const c = added.calibration;
   io.out(`Calibration "${c.name}" on ${c.standardPhaseId} (reference a = ${standard.cell.aA} Å), ${kilovolts(c.voltageV)} kV, ${paths.length} image${paths.length === 1 ? '' : 's'}: ${paths.join(', ')}`);
   const rel = c.cameraLengthSigmaPx / c.cameraLengthPx;
@@ -305,5 +318,6 @@ function printCalibration(io: CliIo, standard: Phase, fit: CameraCalibration, ad
   else io.out('Drift check: no earlier calibration at this instrument, voltage and nominal camera length.');
   if (added.instrumentAdded) io.out(`Instrument "${c.instrument}" was added to the lab store.`);
   io.out(`Saved as calibration "${c.name}" in the lab store. Use it with: annula analyze <image> --calibration "${c.name}"`);
+  io.out(`Applied to a later image, the uncertainty budget of the ${budgetLine(budget)}. The saved record keeps the fit's own uncertainty; the reference and transfer terms are added when it is applied.`);
   io.out(`\nCaution: ${CALIBRATION_CAUTION}`);
 }

@@ -3,13 +3,14 @@ import { basename, extname, join } from 'node:path';
 import cliProgress from 'cli-progress';
 import type { Command } from 'commander';
 import { stringify } from 'csv-stringify/sync';
+import type { CameraUncertaintyBudget, ReproducibilitySource } from '../../../core/calibration';
 import type { Phase } from '../../../core/crystal';
 import type { AnalysisCamera } from '../../../core/pipeline';
 import { checkFilm, type FilmCheck, type Verdict } from '../../../core/qa';
 import { parseRelative } from '../../common/quantity';
 import { LabStoreError, type CalibrationRecord, type LabStore } from '../../node/store';
 import { addCameraOptions, readCameraFlags, type CameraFlags } from '../camera-options';
-import { cameraFromRecord, distortionDisagreement, findStoredCalibration } from '../calibration-camera';
+import { budgetForRecord, budgetLine, cameraFromRecord, distortionDisagreement, findStoredCalibration, readCameraReproducibility } from '../calibration-camera';
 import { expandCheckArguments, type CheckInput } from '../check-inputs';
 import { printJson, processIo, type CliIo } from '../cli-io';
 import { EXIT, InputError, UsageError } from '../exit-codes';
@@ -36,6 +37,7 @@ import { givenVoltage, printAnalysis } from './analyze';
 
 interface CheckOptions extends CameraFlags, AnalysisShapeOptions {
   cameraSigma?: string;
+  cameraReproducibility?: string;
   calibration?: string;
   expect: string;
   tolerance: string;
@@ -129,6 +131,9 @@ interface Context {
   expected: Phase;
   tolerance: number;
   record: CalibrationRecord | null;
+  /** The calibration's uncertainty budget for these images (null without a calibration), and its warnings. */
+  budget: CameraUncertaintyBudget | null;
+  budgetWarnings: string[];
   store: LabStore;
   batch: boolean;
 }
@@ -136,7 +141,7 @@ interface Context {
 /** The camera for one image: the calibration's (voltage checked), or the nominal one. */
 function cameraFor(input: ImageInput, ctx: Context): AnalysisCamera {
   const flags = withSampleCamera(ctx.opts, input);
-  if (ctx.record) return cameraFromRecord(ctx.record, givenVoltage(flags), flags.voltage === ctx.opts.voltage ? '--voltage' : `${input.argument}'s sample.json`);
+  if (ctx.record) return cameraFromRecord(ctx.record, givenVoltage(flags), flags.voltage === ctx.opts.voltage ? '--voltage' : `${input.argument}'s sample.json`, ctx.budget!);
   const nominal = readCameraFlags(flags, true);
   const relSigma = ctx.opts.cameraSigma === undefined ? 0 : parseRelative(ctx.opts.cameraSigma, '--camera-sigma');
   return { voltageV: nominal.voltageV, cameraLengthPx: nominal.cameraLengthPx!, cameraLengthSigmaPx: relSigma * nominal.cameraLengthPx!, source: nominalCameraSource(nominal), calibrated: false };
@@ -147,11 +152,11 @@ async function checkOne(input: ImageInput, stem: string, ctx: Context): Promise<
   const { opts, shape, expected, record } = ctx;
   const camera = cameraFor(input, ctx);
   const analysis = await analyzeImageFile({ imagePath: input.imagePath, camera, shape, onProgress: stageReporter(ctx.io, 'check', (opts.quiet ?? false) || ctx.batch) });
-  const extraWarnings = [...shape.notes];
+  const extraWarnings = [...shape.notes, ...ctx.budgetWarnings];
   const disagreement = record ? distortionDisagreement(analysis.result, record) : null;
   if (disagreement) extraWarnings.push(disagreement);
-  const output = analysisOutput(analysis, input.imagePath, { calibration: record?.name ?? null, extraWarnings });
-  const check = checkFilm(analysis.result, expected, { tolerance: ctx.tolerance, library: shape.library });
+  const output = analysisOutput(analysis, input.imagePath, { calibration: record?.name ?? null, cameraUncertainty: ctx.budget, extraWarnings });
+  const check = checkFilm(analysis.result, expected, { tolerance: ctx.tolerance, library: shape.library, ...(ctx.budget ? { cameraUncertainty: ctx.budget } : {}) });
   const json = checkJsonOf(check, record?.name ?? null, output);
   let added;
   try {
@@ -232,6 +237,7 @@ export function registerCheck(program: Command, io: CliIo): void {
   )
     .requiredOption('--expect <phase>', 'the phase the film should be: a library id or name (e.g. TiN), or a .cif/.json file')
     .option('--calibration <name>', 'the camera of this saved calibration (see annula calibrations); without it the nominal camera is used and no film can pass')
+    .option('--camera-reproducibility <value>', 'with --calibration: relative standard uncertainty of the camera length between images at the same settings (specimen height, focus, lens hysteresis), e.g. 0.3%; default 0.1% (assumes the eucentric height and standard focus, as for the standard: from memory); 0 only if written')
     .option('--tolerance <value>', 'allowed relative deviation of a from the expected phase, e.g. 0.5% or 2000ppm', '0.5%')
     .option('--sample-id <id>', 'the sample id recorded with each check, e.g. S-104')
     .option('--operator <name>', 'who ran the check (recorded)')
@@ -244,7 +250,9 @@ export function registerCheck(program: Command, io: CliIo): void {
     .addHelpText(
       'after',
       '\nVerdict (JCGM 106 guarded acceptance, expanded uncertainty U = 2u): pass when |a/a_expected - 1| + U <= tolerance,\n' +
-        'fail when |a/a_expected - 1| - U > tolerance, inconclusive otherwise and whenever U > tolerance. Rings the expected\n' +
+        'fail when |a/a_expected - 1| - U > tolerance, inconclusive otherwise and whenever U > tolerance. U includes the camera\'s\n' +
+        'budget: the fit, the standard\'s reference lattice constant and the transfer to each image (--camera-reproducibility),\n' +
+        'as a root sum of squares of relative standard uncertainties (JCGM 100). Rings the expected\n' +
         'phase cannot explain (a possible second phase) fail; strong expected rings missing, or a nominal camera, make a pass inconclusive.\n' +
         'Exit code: 0 pass, 5 fail, 6 inconclusive; for a batch the worst (fail, then inconclusive), and 3 when any image could not be checked.\n\n' +
         'Examples:\n  annula check film.tif --calibration "TEM-2 200kV March" --expect TiN --tolerance 0.5% --sample-id S-104\n' +
@@ -259,7 +267,10 @@ export function registerCheck(program: Command, io: CliIo): void {
       if (opts.calibration !== undefined) {
         const clash = (['cameraLength', 'pixelSize', 'scale', 'cameraSigma'] as const).find((k) => opts[k] !== undefined);
         if (clash) throw new UsageError(`--${clash.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)} and --calibration both describe the camera; give one of them`);
+      } else if (opts.cameraReproducibility !== undefined) {
+        throw new UsageError('--camera-reproducibility goes with --calibration <name>: it is the uncertainty of carrying a calibration over to these images; for a nominal camera use --camera-sigma');
       }
+      const reproducibility: { relative: number; source: ReproducibilitySource } = readCameraReproducibility(opts.cameraReproducibility);
       const shape = await readAnalysisShape(opts);
       const expected = resolvePhaseArgument(opts.expect, shape.library.filter((x) => x.origin !== 'library'));
       const { inputs, batch } = await expandCheckArguments(args);
@@ -277,7 +288,8 @@ export function registerCheck(program: Command, io: CliIo): void {
       const outcomes: CheckOutcome[] = [];
       try {
         const record = opts.calibration !== undefined ? await findStoredCalibration(store, opts.calibration) : null;
-        const ctx: Context = { opts, io, shape, expected, tolerance, record, store, batch };
+        const found = record ? budgetForRecord(record, shape.library, reproducibility) : null;
+        const ctx: Context = { opts, io, shape, expected, tolerance, record, budget: found?.budget ?? null, budgetWarnings: found?.warnings ?? [], store, batch };
         const bar = progress(io, inputs.length, (opts.quiet ?? false) || !batch);
         let k = 0;
         for (const entry of inputs) {
@@ -312,6 +324,7 @@ export function registerCheck(program: Command, io: CliIo): void {
           io.out(`Recorded as analysis ${o.analysisId} in ${store.path}.`);
         } else {
           printSummary(io, rows);
+          if (ctx.budget) io.out(`Uncertainty budget of the ${budgetLine(ctx.budget)}.`);
         }
         if (!opts.json && csvPath) io.out(`wrote ${csvPath}`);
         if (!opts.json && opts.report) io.out(`wrote the reports into ${opts.report}`);

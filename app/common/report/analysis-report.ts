@@ -23,6 +23,7 @@
  * form (number-text.ts).
  */
 import { PDFDocument } from 'pdf-lib';
+import type { CameraUncertaintyBudget } from '../../../core/calibration/camera-uncertainty-budget';
 import type { Phase } from '../../../core/crystal/phase';
 import { phaseLibrary } from '../../../core/crystal/phase-library';
 import type { Raster } from '../../../core/image/raster';
@@ -83,6 +84,8 @@ export interface AnalysisReportInput {
   check?: FilmCheck | null;
   /** The calibration used; none (or an uncalibrated camera) is stated prominently. */
   calibration?: ReportCalibration | null;
+  /** The calibrated camera's uncertainty budget (fit, reference a, transfer), printed in the calibration section (optional). */
+  cameraUncertainty?: CameraUncertaintyBudget | null;
   sampleId: string;
   operator?: string | null;
   image: { path: string; sha256: string };
@@ -423,7 +426,7 @@ function candidateTable(w: ReportWriter, result: AnalysisResult): void {
 }
 
 /** The calibration the camera came from: its record, and what its relative uncertainty does to every d and a. */
-function calibrationSection(w: ReportWriter, result: AnalysisResult, calibration: ReportCalibration | null): void {
+function calibrationSection(w: ReportWriter, result: AnalysisResult, calibration: ReportCalibration | null, budget: CameraUncertaintyBudget | null): void {
   w.heading('Camera calibration', 110);
   const cam = result.camera;
   if (!calibration) {
@@ -441,7 +444,8 @@ function calibrationSection(w: ReportWriter, result: AnalysisResult, calibration
     ['Name', calibration.name, 'bold'],
     ['Instrument', calibration.instrument ?? 'not recorded'],
     ['Made', `${calibration.date}, on ${calibration.standard}`],
-    ['L/p', `${concise(calibration.cameraLengthPx, calibration.cameraLengthSigmaPx)} px (relative standard uncertainty ${(rel * 1e6).toFixed(1)} ppm, carried into every d and a of this report)`],
+    ['L/p', `${concise(calibration.cameraLengthPx, calibration.cameraLengthSigmaPx)} px (relative standard uncertainty ${(rel * 1e6).toFixed(1)} ppm${budget ? ' of the fit alone' : ', carried into every d and a of this report'})`],
+    ...budgetRows(budget),
   ];
   if (d) {
     const setting = [`${Number((d.voltageV / 1e3).toPrecision(6))} kV`, d.nominalCameraLengthM !== null ? `nominal camera length ${Number(d.nominalCameraLengthM.toPrecision(6))} m` : null, d.pixelSizeM !== null ? `pixel ${Number((d.pixelSizeM * 1e6).toPrecision(6))} µm` : null]
@@ -477,6 +481,22 @@ function calibrationSection(w: ReportWriter, result: AnalysisResult, calibration
     );
   }
   if (d && d.rejected.length) w.bullets(d.rejected.map((r) => `rejected: ${r}`), { size: 8 });
+}
+
+/** The camera's uncertainty budget (relative standard uncertainties, root sum of squares: JCGM 100), as rows. */
+function budgetRows(b: CameraUncertaintyBudget | null): Array<[string, string]> {
+  if (!b) return [];
+  const p = (x: number): string => `${(x * 100).toFixed(4)} %`;
+  const transfer =
+    b.reproducibilitySource === 'same image'
+      ? 'none: the internal standard is on the same image (its reference a still counts)'
+      : `${b.reproducibilitySource === 'default' ? 'default, assuming the eucentric height and standard focus as for the standard (from memory)' : 'as given'}: specimen height, focus and lens hysteresis between images`;
+  return [
+    ['Budget: fit', p(b.fitRelative)],
+    ['Budget: reference', `${p(b.referenceRelative)}: a of ${b.reference.phase} (value ${p(b.reference.valueRelative)}${b.reference.valueSource === 'library default' ? ', library default' : ', stated'}; temperature under the beam ${p(b.reference.thermalRelative)}; thin film ${p(b.reference.filmRelative)})`],
+    ['Budget: transfer', `${p(b.reproducibilityRelative)}, ${transfer}`],
+    ['Budget: total', `${p(b.totalRelative)} (root sum of squares of relative standard uncertainties, JCGM 100), carried into every d and a of this report`],
+  ];
 }
 
 function checkDetails(w: ReportWriter, check: FilmCheck): void {
@@ -603,7 +623,7 @@ export async function buildAnalysisReport(input: AnalysisReportInput): Promise<U
   ringTable(w, result);
   candidateTable(w, result);
   if (check) checkDetails(w, check);
-  calibrationSection(w, result, input.calibration ?? null);
+  calibrationSection(w, result, input.calibration ?? null, input.cameraUncertainty ?? null);
   textSections(w, result);
   cautionsAndSignOff(w);
 

@@ -51,6 +51,7 @@ interface Output {
   calibration: string | null;
   internalStandard: { phase: string; ringIndices: number[]; cameraLengthPx: number; cameraLengthSigmaPx: number } | null;
   camera: { cameraLengthPx: number; cameraLengthSigmaPx: number; calibrated: boolean; source: string };
+  cameraUncertainty: { fitRelative: number; referenceRelative: number; reproducibilityRelative: number; totalRelative: number; reproducibilitySource: string } | null;
   rings: Array<{ dA: number; dSigmaA: number; phase: string | null }>;
   candidates: Array<{ phase: string | null; aA: number; aSigmaA: number }>;
   warnings: string[];
@@ -67,7 +68,7 @@ describe('annula analyze --calibration', () => {
     expect(r.code).toBe(0);
     const out = JSON.parse(r.stdout) as Output;
     expect(out.calibration).toBe('gold 200kV');
-    expect(Object.keys(out).slice(0, 6)).toEqual(['image', 'voltageV', 'wavelengthA', 'camera', 'calibration', 'internalStandard']);
+    expect(Object.keys(out).slice(0, 7)).toEqual(['image', 'voltageV', 'wavelengthA', 'camera', 'calibration', 'internalStandard', 'cameraUncertainty']);
     expect(out.camera.calibrated).toBe(true);
     expect(out.camera.source).toMatch(/^calibration "gold 200kV" \(Au, /);
     const best = out.candidates[0]!;
@@ -82,7 +83,12 @@ describe('annula analyze --calibration', () => {
     // The camera's relative uncertainty is in a, and in each d in quadrature with the radius term:
     // the same image with the nominal camera (taken as exact) has the radius term alone.
     const camRel = out.camera.cameraLengthSigmaPx / out.camera.cameraLengthPx;
-    expect(camRel).toBeGreaterThan(0);
+    // camRel is the budget's total: the fit, gold's reference a and the default transfer term (0.1 %, from memory).
+    const b = out.cameraUncertainty!;
+    expect(b.reproducibilitySource).toBe('default');
+    expect(camRel).toBeCloseTo(b.totalRelative, 12);
+    expect(b.totalRelative).toBeCloseTo(Math.hypot(b.fitRelative, b.referenceRelative, 0.001), 12);
+    expect(b.totalRelative).toBeGreaterThan(50 * b.fitRelative);
     expect(best.aSigmaA / best.aA).toBeGreaterThanOrEqual(0.999 * camRel);
     const nominal = JSON.parse((await runCli('analyze', 'samples/tin-coating', '--json', '--quiet')).stdout) as Output;
     out.rings.forEach((ring, i) => {
@@ -138,6 +144,17 @@ describe('annula analyze --internal-standard', () => {
     expect(s.ringIndices.length).toBeGreaterThanOrEqual(5);
     out.rings.forEach((ring, i) => expect(ring.phase).toBe(s.ringIndices.includes(i) ? 'Au' : 'W'));
     expect(out.camera.source).toMatch(/^internal standard Au \(rings [\d, ]+ of this image\)$/);
+    // Same image: no transfer term; gold's reference a (0.0387 %, core/calibration defaults) stays in every d and a.
+    const b = out.cameraUncertainty!;
+    expect(b.reproducibilitySource).toBe('same image');
+    expect(b.reproducibilityRelative).toBe(0);
+    expect(b.referenceRelative).toBeCloseTo(3.873e-4, 6);
+    expect(b.fitRelative).toBeCloseTo(s.cameraLengthSigmaPx / s.cameraLengthPx, 12);
+    expect(out.camera.cameraLengthSigmaPx / out.camera.cameraLengthPx).toBeCloseTo(b.totalRelative, 12);
+    expect(w.aSigmaA / w.aA).toBeGreaterThanOrEqual(0.999 * b.totalRelative);
+    const refused = await runCli('analyze', path, '--voltage', '200kV', '--camera-length', '0.8m', '--pixel-size', '28um', '--internal-standard', 'Au', '--camera-reproducibility', '0.1%', '--quiet');
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toMatch(/an --internal-standard is on this image, so there is no transfer term/);
     expect(out.warnings.join(' ')).not.toMatch(/ambiguous|nominal, not calibrated/);
   });
 

@@ -6,7 +6,8 @@
  * stable JSON. The pages themselves are rendered and looked at in
  * test/reference/report-files.reference.test.ts.
  */
-import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync, readdirSync } from 'node:fs';
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync, readdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PDFDocument } from 'pdf-lib';
@@ -15,6 +16,7 @@ import { UsageError } from '../../../../app/cli/exit-codes';
 import { reportCalibration, reportFilePaths, reportStem, writeReportFiles, type AnalysisOutput, type ReportFilesInput } from '../../../../app/cli/report-files';
 import { RING_TABLE_COLUMNS } from '../../../../app/common/report';
 import type { CalibrationRecord } from '../../../../app/node/store';
+import { cameraUncertaintyBudget, standardReferenceUncertainty } from '../../../../core/calibration';
 import { findPhase } from '../../../../core/crystal';
 import { calibrateOnGold, calibrationRecordOf, checkedTinFilm } from '../common/report/simulated-films';
 
@@ -124,6 +126,18 @@ describe('writeReportFiles', () => {
     const json = JSON.parse(readFileSync(paths.json, 'utf8'));
     expect(json.image.path).toBe('films/CV-TIN-0412/pattern.tif');
     expect(json.candidates[0].phase).toBe('TiN');
+  });
+
+  it("prints the camera's uncertainty budget in the calibration section (text read back with poppler's pdftotext)", async (ctx) => {
+    if (!existsSync('/usr/bin/pdftotext')) return ctx.skip();
+    const gold = standardReferenceUncertainty({ id: 'Au', aA: 4.0786 });
+    const budget = cameraUncertaintyBudget(record.cameraLengthSigmaPx / record.cameraLengthPx, gold, { relative: 0.001, source: 'default' });
+    const dir = join(work, 'budget');
+    const paths = await writeReportFiles(dir, { ...input, analysis: { ...input.analysis, cameraUncertainty: budget } }, { annulaVersion: '0.1.0' });
+    const text = execFileSync('/usr/bin/pdftotext', ['-layout', paths.pdf, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    expect(text).toMatch(/Budget: reference 0\.0387 %: a of Au/);
+    expect(text).toMatch(/Budget: transfer 0\.1000 %, default/);
+    expect(text).toMatch(new RegExp(`Budget: total ${(budget.totalRelative * 100).toFixed(4).replace('.', '\\.')} % \\(root sum of squares`));
   });
 
   it('says so when the report folder is a file', async () => {

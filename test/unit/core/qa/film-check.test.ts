@@ -3,6 +3,7 @@
  * the decision rule of JCGM 106:2012 with guard bands (expanded uncertainty, k = 2).
  */
 import { describe, expect, it } from 'vitest';
+import { cameraUncertaintyBudget, standardReferenceUncertainty } from '../../../../core/calibration';
 import { findPhase, phaseLibrary } from '../../../../core/crystal';
 import { analyze, type AnalysisResult } from '../../../../core/pipeline';
 import { checkFilm } from '../../../../core/qa';
@@ -12,7 +13,7 @@ import { loadOpenCv } from '../../../../app/node/load-opencv';
 const LP = 27000;
 const tin = findPhase('TiN')!;
 
-function measure(phases: SimulationSpec['phases'], seed: number, calibrated = true): AnalysisResult {
+function measure(phases: SimulationSpec['phases'], seed: number, calibrated = true, cameraRelativeSigma = 50e-6): AnalysisResult {
   const spec: SimulationSpec = {
     widthPx: 768,
     heightPx: 768,
@@ -29,7 +30,7 @@ function measure(phases: SimulationSpec['phases'], seed: number, calibrated = tr
     simulatePattern(spec).raster,
     {
       // A calibration with a 50 ppm standard uncertainty on the camera length.
-      camera: { voltageV: 200e3, cameraLengthPx: LP, cameraLengthSigmaPx: calibrated ? 50e-6 * LP : 0, source: 'test', calibrated },
+      camera: { voltageV: 200e3, cameraLengthPx: LP, cameraLengthSigmaPx: calibrated ? cameraRelativeSigma * LP : 0, source: 'test', calibrated },
       image: { bitsPerSample: 16, sampleFormat: 'uint' },
       phases: phaseLibrary(),
     },
@@ -56,6 +57,16 @@ describe('checkFilm', () => {
     const c = checkFilm(measure([{ phase: tin, latticeScale: 1.0 }], 503), tin, { tolerance: 5e-5 });
     expect(c.verdict).toBe('inconclusive');
     expect(c.reasons[0]).toMatch(/wider than the tolerance/);
+  });
+
+  it('is inconclusive, never a pass, for a film 0.1 % off when the camera budget (1 % reproducibility) is wider than a 0.5 % tolerance, and names that term', () => {
+    // A 0.1 % film passes at 0.5 % with a 50 ppm camera (above); with a 1 % transfer term U = 2 x 1.0 % > 0.5 %.
+    const budget = cameraUncertaintyBudget(50e-6, standardReferenceUncertainty({ id: 'Au', aA: 4.0786 }), { relative: 0.01, source: 'given' });
+    const c = checkFilm(measure([{ phase: tin, latticeScale: 1.001 }], 501, true, budget.totalRelative), tin, { tolerance: 0.005, library: phaseLibrary(), cameraUncertainty: budget });
+    expect(c.verdict).toBe('inconclusive');
+    expect(c.measured!.expandedUncertainty).toBeGreaterThanOrEqual(2 * budget.totalRelative);
+    expect(c.measured!.deviation).toBeCloseTo(0.001, 3); // the error against the simulated strain does not depend on the budget
+    expect(c.reasons[0]).toMatch(/wider than the tolerance .*the camera's reproducibility between images \(1\.000 %\) dominates/);
   });
 
   it('fails a film with a second phase and names candidates for its rings', () => {
