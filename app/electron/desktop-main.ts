@@ -49,7 +49,7 @@ export async function openDesktopWorkspace(electron: ElectronApi, paths: Desktop
       return r.canceled || r.filePaths.length === 0 ? null : r.filePaths[0]!;
     },
     async saveFile(suggestedName, extension) {
-      const r = await dialog.showSaveDialog(window, { defaultPath: suggestedName, filters: [{ name: extension.toUpperCase(), extensions: [extension] }] });
+      const r = await dialog.showSaveDialog(window, { defaultPath: suggestedName, filters: [{ name: extension.toUpperCase(), extensions: [extension] }], properties: ['showOverwriteConfirmation', 'createDirectory'] });
       return r.canceled || !r.filePath ? null : r.filePath;
     },
   };

@@ -8,7 +8,18 @@ import type { HandlerErrorData, HandlerName } from '../handlers/contract';
 export const CHANNEL_PREFIX = 'annula:';
 
 /** Backend handlers the renderer may call through the preload (read-chosen-image is reached only through the open dialog). */
-export const RENDERER_HANDLERS = ['list-samples', 'read-sample', 'fingerprint-image', 'list-calibrations', 'find-calibration'] as const satisfies readonly HandlerName[];
+export const RENDERER_HANDLERS = [
+  'list-samples',
+  'read-sample',
+  'fingerprint-image',
+  'list-calibrations',
+  'find-calibration',
+  'save-calibration',
+  'calibration-history',
+  'record-check',
+  'phase-history',
+  'write-report',
+] as const satisfies readonly HandlerName[];
 
 export const handlerChannel = (name: string): string => `${CHANNEL_PREFIX}handler:${name}`;
 

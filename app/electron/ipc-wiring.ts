@@ -62,7 +62,7 @@ async function envelope<T>(event: IpcMainInvokeEvent, run: () => Promise<T>): Pr
 
 /** Registers every channel; returns the channel names (for tests and for logging). */
 export function wireIpc(w: IpcWiring): string[] {
-  const context: HandlerContext = { ...w.context, isUserChosenPath: (path) => w.chosenPaths.mayRead(path) };
+  const context: HandlerContext = { ...w.context, isUserChosenPath: (path) => w.chosenPaths.mayRead(path), mayWriteChosenPath: (path) => w.chosenPaths.mayWrite(path) };
   const channels: string[] = [];
   for (const name of RENDERER_HANDLERS) {
     const handler = findHandler(name, w.handlers);

@@ -14,6 +14,11 @@ const desktopApi = {
   fingerprintImage: call('fingerprint-image'),
   listCalibrations: call('list-calibrations'),
   findCalibration: call('find-calibration'),
+  saveCalibration: call('save-calibration'),
+  calibrationHistory: call('calibration-history'),
+  recordCheck: call('record-check'),
+  phaseHistory: call('phase-history'),
+  writeReport: call('write-report'),
   openImageDialog: () => ipcRenderer.invoke(OPEN_IMAGE_DIALOG),
   chooseSavePath: (input: { suggestedName: string; extension: string }) => ipcRenderer.invoke(CHOOSE_SAVE_PATH, input),
   onMenuCommand(listener: (command: MenuCommand) => void): () => void {

@@ -85,6 +85,89 @@ export interface CalibrationList {
   calibrations: CalibrationSummary[];
 }
 
+/** The drift check of a calibration against the previous one at the same setting (app/node/store calibrationDrift). */
+export interface CalibrationDriftData {
+  previousName: string;
+  previousCreated: string;
+  relativeChange: number;
+  relativeChangeSigma: number;
+  threshold: number;
+  flagged: boolean;
+  message: string;
+}
+
+/** What save-calibration did: the saved calibration and its drift check (null without a previous one). */
+export interface SavedCalibration {
+  calibration: CalibrationSummary;
+  instrumentAdded: boolean;
+  drift: CalibrationDriftData | null;
+  storePath: string;
+}
+
+/** A calibration in an instrument's history, with its drift against the one before it. */
+export interface CalibrationHistoryEntry extends CalibrationSummary {
+  ringsUsed: number;
+  ringsRejected: number;
+  drift: CalibrationDriftData | null;
+}
+
+export interface CalibrationHistory {
+  storePath: string;
+  storeFound: boolean;
+  /** Null: every calibration recorded without an instrument. */
+  instrument: string | null;
+  /** Oldest first. */
+  calibrations: CalibrationHistoryEntry[];
+}
+
+export type VerdictText = 'pass' | 'fail' | 'inconclusive';
+
+/** A check to record (the store's NewAnalysis, every field as the workspace sends it). */
+export interface CheckRecordInput {
+  sampleId: string | null;
+  operator: string | null;
+  imageSha256: string;
+  imagePath: string | null;
+  calibration: string | null;
+  phase: string;
+  aA: number | null;
+  aSigmaA: number | null;
+  verdict: VerdictText;
+  tolerance: number;
+  /** The full result (the check JSON, as `annula check --json` writes it). */
+  result: unknown;
+}
+
+/** An analysis as the phase history lists it (the store's AnalysisSummary). */
+export interface AnalysisSummaryData {
+  id: number;
+  sampleId: string | null;
+  operator: string | null;
+  created: string;
+  imageSha256: string;
+  imagePath: string | null;
+  calibration: string | null;
+  phase: string | null;
+  aA: number | null;
+  aSigmaA: number | null;
+  verdict: VerdictText | null;
+  tolerance: number | null;
+}
+
+export interface PhaseHistory {
+  storePath: string;
+  storeFound: boolean;
+  phase: string;
+  /** Oldest first. */
+  analyses: AnalysisSummaryData[];
+}
+
+/** A file written by write-report (desktop: to the path the user chose in the save dialog). */
+export interface WrittenFile {
+  path: string;
+  byteLength: number;
+}
+
 /** Inputs and outputs of every handler, by name: the typed contract both sides use. */
 export interface HandlerMap {
   'list-samples': { input: Record<string, never>; output: SampleSummary[] };
@@ -93,17 +176,19 @@ export interface HandlerMap {
   'fingerprint-image': { input: { name: string; bytes: Uint8Array }; output: ImageFileMeta };
   'list-calibrations': { input: { instrument?: string; voltageV?: number }; output: CalibrationList };
   'find-calibration': { input: { name: string }; output: CalibrationSummary };
+  /** The input is a NewCalibration (app/node/store), validated by the store's schema. */
+  'save-calibration': { input: { calibration: Record<string, unknown> }; output: SavedCalibration };
+  'calibration-history': { input: { instrument: string | null; voltageV?: number }; output: CalibrationHistory };
+  'record-check': { input: CheckRecordInput; output: { id: number; created: string; storePath: string } };
+  'phase-history': { input: { phase: string; since?: string }; output: PhaseHistory };
+  'write-report': { input: { path: string; bytes: Uint8Array }; output: WrittenFile };
 }
 
 export type HandlerName = keyof HandlerMap;
 
 /**
- * Handlers the calibration and check flows add (issue 4's save-calibration, record-check
- * and write-report): named here so every transport answers them with 'not-available'
- * and a pointer to the CLI command until they are wired in.
+ * Handlers planned but not in this version: every transport answers them with
+ * 'not-available' and the CLI command that does the job. Empty now: the calibration and
+ * check flows' handlers are served.
  */
-export const PLANNED_HANDLERS: Readonly<Record<string, string>> = {
-  'save-calibration': 'annula calibrate',
-  'record-check': 'annula check',
-  'write-report': 'annula analyze --out (reports come with the check flow)',
-};
+export const PLANNED_HANDLERS: Readonly<Record<string, string>> = {};

@@ -17,6 +17,11 @@ export interface HandlerContext {
    * Browser mode never allows a path: files arrive as uploaded bytes.
    */
   isUserChosenPath(path: string): boolean;
+  /**
+   * Whether the user chose this path in a save dialog this session (desktop only). Left
+   * out in browser mode, where exports are downloads and the backend writes no file.
+   */
+  mayWriteChosenPath?(path: string): boolean;
 }
 
 export interface Handler<N extends HandlerName = HandlerName> {

@@ -2,9 +2,8 @@
  * The backend handlers, written once and served by app/server (loopback HTTP) and
  * app/electron (IPC). Add a handler here and both transports serve it.
  *
- * Issue 4's save-calibration, record-check and write-report go into BACKEND_HANDLERS
- * when their functions land; until then PLANNED_HANDLERS makes every transport answer
- * them with 'not-available' and the CLI command that does the job.
+ * A name in PLANNED_HANDLERS (none now) is answered with 'not-available' and the CLI
+ * command that does the job.
  */
 import { findCalibration, listCalibrations } from './calibration-handlers';
 import type { HandlerName } from './contract';
@@ -12,15 +11,29 @@ import type { Handler } from './handler';
 import { HandlerError } from './handler-error';
 import { fingerprintImage, readChosenImage } from './image-handlers';
 import { listSamples, readSample } from './sample-handlers';
+import { calibrationHistory, phaseHistory, recordCheck, saveCalibration, writeReport } from './record-handlers';
 import { PLANNED_HANDLERS } from './contract';
 
 export type { HandlerContext, Handler } from './handler';
 export { defineHandler, parseHandlerInput, runHandler } from './handler';
 export { HandlerError, toHandlerErrorData } from './handler-error';
 export { MAX_IMAGE_BYTES } from './image-handlers';
+export { MAX_EXPORT_BYTES } from './record-handlers';
 export * from './contract';
 
-export const BACKEND_HANDLERS: readonly Handler[] = [listSamples, readSample, readChosenImage, fingerprintImage, listCalibrations, findCalibration] as unknown as Handler[];
+export const BACKEND_HANDLERS: readonly Handler[] = [
+  listSamples,
+  readSample,
+  readChosenImage,
+  fingerprintImage,
+  listCalibrations,
+  findCalibration,
+  saveCalibration,
+  calibrationHistory,
+  recordCheck,
+  phaseHistory,
+  writeReport,
+] as unknown as Handler[];
 
 /**
  * The handler called `name`.

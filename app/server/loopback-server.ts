@@ -160,7 +160,8 @@ async function handleStatic(req: IncomingMessage, res: ServerResponse, url: URL,
 export async function startLoopbackServer(options: LoopbackServerOptions): Promise<LoopbackServer> {
   const token = options.token ?? newSessionToken();
   const handlers = options.handlers ?? BACKEND_HANDLERS;
-  const context: HandlerContext = { ...options.context, isUserChosenPath: () => false };
+  // No path is ever chosen in browser mode: files arrive as uploads, exports leave as downloads.
+  const context: HandlerContext = { samplesDir: options.context.samplesDir, storePath: options.context.storePath, isUserChosenPath: () => false };
   let port = options.port ?? 0;
 
   const server: Server = createServer((req, res) => {

@@ -3,12 +3,13 @@
  * pipeline runs without pauses, so stopping the thread is the only true cancel) and
  * starts a fresh one; answers to older jobs are dropped.
  */
-import type { AnalysisCamera } from '../../../core/pipeline';
 import type { FromWorker, ToWorker } from './analysis-protocol';
+
+type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
 
 export type WorkerListener = (message: FromWorker) => void;
 
-type Job = { kind: 'analyze'; name: string; bytes: ArrayBuffer; camera: AnalysisCamera } | { kind: 'recamera'; camera: AnalysisCamera } | { kind: 'move-centre'; centerXPx: number; centerYPx: number };
+type Job = DistributiveOmit<ToWorker, 'jobId'>;
 
 export class AnalysisClient {
   #worker: Worker;

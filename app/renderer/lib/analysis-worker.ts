@@ -5,7 +5,11 @@
  * camera (reindexAnalysis) or a moved centre (analyzeInFrame). OpenCV is the browser
  * build with its wasm embedded (opencv-wasm/opencv-deno.js; see /work/shared/NOTES.md).
  */
-import { phaseLibrary } from '../../../core/crystal';
+import { findPhase, phaseLibrary } from '../../../core/crystal';
+import { checkFilm } from '../../../core/qa';
+import { buildAnalysisReport, encodePatternPng, predictedRingsForReport } from '../../common/report';
+import { version as annulaVersion } from '../../../package.json';
+import { fitCameraOnStandard, untrustedFit } from './calibration-fit';
 import { decodeImage, ImageDecodeError, type DecodedImage } from '../../../core/image';
 import type { OpenCv } from '../../../core/image/opencv-handle';
 import { analyze, analyzeInFrame, buildPatternMask, reindexAnalysis, type AnalysisCamera, type AnalysisResult, type AnalysisSettings, type PatternMask } from '../../../core/pipeline';
@@ -102,8 +106,55 @@ async function run(message: ToWorker): Promise<void> {
     post({ kind: 'result', jobId, result, elapsedMs: now() - t0 });
     return;
   }
+  if (message.kind === 'calibrate') {
+    const standard = findPhase(message.standardId);
+    if (!standard) throw new RangeError(`"${message.standardId}" is not a library phase; choose the standard from the list`);
+    const outcome = fitCameraOnStandard([held.result], standard, message.nominalCameraLengthPx);
+    const problems = outcome.ok ? untrustedFit(outcome.calibration, [held.result], standard) : [];
+    post({ kind: 'calibration', jobId, outcome, problems, elapsedMs: now() - t0 });
+    return;
+  }
+  if (message.kind === 'check') {
+    const expected = findPhase(message.expectedId);
+    if (!expected) throw new RangeError(`"${message.expectedId}" is not a library phase; choose the expected phase from the list`);
+    const result = reindexAnalysis({ ...held.result, voltageV: message.camera.voltageV }, message.camera, phases);
+    held = { ...held, settings: { ...held.settings, camera: message.camera }, result };
+    const check = checkFilm(result, expected, { tolerance: message.tolerance, library: phases, cameraUncertainty: message.budget });
+    post({ kind: 'check', jobId, check, result, elapsedMs: now() - t0 });
+    return;
+  }
   const { cv } = await loadOpenCv();
   const mask = maskOf(held, cv);
+  if (message.kind === 'export') {
+    const q = message.report;
+    const predicted = q.predictedPhaseId ? findPhase(q.predictedPhaseId) : undefined;
+    let bytes: Uint8Array;
+    if (message.what === 'png') {
+      bytes = encodePatternPng(held.decoded.raster, held.result, {
+        mask: mask.mask,
+        predicted: predicted ? predictedRingsForReport(held.result, predicted) : null,
+        text: { Software: `Annula ${annulaVersion}`, Source: q.image.path },
+      });
+    } else {
+      bytes = await buildAnalysisReport({
+        result: held.result,
+        raster: held.decoded.raster,
+        mask: mask.mask,
+        check: q.check,
+        calibration: q.calibration,
+        cameraUncertainty: q.cameraUncertainty,
+        sampleId: q.sampleId,
+        operator: q.operator,
+        image: q.image,
+        annulaVersion,
+        date: q.date,
+        ...(predicted ? { predictedPhase: predicted } : {}),
+        phases,
+      });
+    }
+    post({ kind: 'export', jobId, what: message.what, bytes }, [bytes.buffer]);
+    return;
+  }
   const r = held.result;
   const frame = { centerXPx: message.centerXPx, centerYPx: message.centerYPx, axisRatio: r.distortion.axisRatio, angleDeg: r.distortion.angleDeg };
   const nan = Number.NaN;

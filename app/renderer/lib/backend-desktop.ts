@@ -11,6 +11,12 @@ interface DesktopBridge {
   fingerprintImage: Call;
   listCalibrations: Call;
   findCalibration: Call;
+  saveCalibration: Call;
+  calibrationHistory: Call;
+  recordCheck: Call;
+  phaseHistory: Call;
+  writeReport: Call;
+  chooseSavePath: (input: { suggestedName: string; extension: string }) => Promise<Envelope<unknown>>;
   openImageDialog: () => Promise<Envelope<unknown>>;
   onMenuCommand(listener: (command: string) => void): () => void;
 }
@@ -33,6 +39,16 @@ export function desktopBackend(bridge: DesktopBridge): Backend {
     fingerprintImage: (name, bytes) => unwrap(bridge.fingerprintImage({ name, bytes })),
     listCalibrations: () => unwrap(bridge.listCalibrations({})),
     findCalibration: (name) => unwrap(bridge.findCalibration({ name })),
+    saveCalibration: (calibration) => unwrap(bridge.saveCalibration({ calibration })),
+    calibrationHistory: (instrument) => unwrap(bridge.calibrationHistory({ instrument })),
+    recordCheck: (check) => unwrap(bridge.recordCheck(check)),
+    phaseHistory: (phase) => unwrap(bridge.phaseHistory({ phase })),
+    async saveExport(suggestedName, extension, bytes) {
+      const chosen = await unwrap<{ path: string } | null>(bridge.chooseSavePath({ suggestedName, extension }));
+      if (!chosen) return null;
+      const written = await unwrap<{ path: string }>(bridge.writeReport({ path: chosen.path, bytes }));
+      return written.path;
+    },
     openImageDialog: () => unwrap<BytesResult<ImageFileMeta> | null>(bridge.openImageDialog()),
     onMenuCommand: (listener) => bridge.onMenuCommand(listener),
   };

@@ -51,4 +51,22 @@ export const httpBackend: Backend = {
   },
   listCalibrations: () => callJson('list-calibrations', {}),
   findCalibration: (name) => callJson('find-calibration', { name }),
+  saveCalibration: (calibration) => callJson('save-calibration', { calibration }),
+  calibrationHistory: (instrument) => callJson('calibration-history', { instrument }),
+  recordCheck: (check) => callJson('record-check', check),
+  phaseHistory: (phase) => callJson('phase-history', { phase }),
+  async saveExport(suggestedName, extension, bytes) {
+    // Browser mode writes no file itself: the browser downloads it (and never replaces one silently).
+    const type = { pdf: 'application/pdf', csv: 'text/csv', json: 'application/json', png: 'image/png' }[extension];
+    const url = URL.createObjectURL(new Blob([bytes as BlobPart], { type }));
+    const a = document.createElement('a');
+    a.href = url;
+    a.download = suggestedName;
+    a.rel = 'noopener';
+    document.body.append(a);
+    a.click();
+    a.remove();
+    setTimeout(() => URL.revokeObjectURL(url), 60_000);
+    return suggestedName;
+  },
 };

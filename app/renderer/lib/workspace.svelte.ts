@@ -2,13 +2,19 @@
  * The workspace's state: what is open, its analysis, the camera fields, display
  * choices. Big data (pixels, results) sit in $state.raw and are replaced, never mutated.
  */
+import type { CalibrationOutcome, CameraUncertaintyBudget } from '../../../core/calibration';
 import { findPhase, phaseLibrary } from '../../../core/crystal';
 import type { AnalysisCamera, AnalysisResult } from '../../../core/pipeline';
-import type { CalibrationList, CameraText, SampleSummary } from '../../handlers/contract';
+import type { FilmCheck } from '../../../core/qa';
+import { parseQuantity, parseRelative, QuantityError } from '../../common/quantity';
+import type { ReportCalibration } from '../../common/report';
+import type { CalibrationHistory, CalibrationList, CalibrationSummary, CameraText, PhaseHistory, SampleSummary, SavedCalibration } from '../../handlers/contract';
 import { AnalysisClient } from './analysis-client';
-import type { DecodedImageSummary, FromWorker } from './analysis-protocol';
+import type { DecodedImageSummary, FromWorker, ReportRequest } from './analysis-protocol';
 import { BackendError, type Backend } from './backend';
-import { calibratedCamera, nominalCamera } from './camera-form';
+import { nominalCamera } from './camera-form';
+import { calibrationCamera, calibrationRecord } from './calibration-fit';
+import { checkJson, exportName, fileStem, ringTableCsv } from './flows';
 import { DEFAULT_CONTRAST, type DisplayContrast } from './display-mapping';
 import { predictedRadii, type PredictedRadius } from './predicted-radii';
 
@@ -22,6 +28,27 @@ export interface Overlays {
   labels: boolean;
   predicted: boolean;
   mask: boolean;
+}
+
+/** The right column's views, by the user's job. */
+export type SideView = 'answer' | 'calibrate' | 'check';
+
+export interface CalibrationDraft {
+  outcome: CalibrationOutcome;
+  problems: string[];
+  /** The pattern it was fitted on. */
+  source: { name: string; sha256: string | null };
+}
+
+export interface CheckOutcome {
+  check: FilmCheck;
+  calibration: CalibrationSummary;
+  budget: CameraUncertaintyBudget;
+  sampleId: string;
+  operator: string | null;
+  /** The store's id of the record, or null when it could not be recorded (recordError says why). */
+  recordedId: number | null;
+  recordError: string | null;
 }
 
 export interface Busy {
@@ -72,6 +99,25 @@ export class Workspace {
   lastRunMs = $state<number | null>(null);
   /** Centre-drag refreshes: count and total worker time, for the rate shown while dragging. */
   dragStats = $state.raw<{ updates: number; workerMs: number; startedAt: number } | null>(null);
+
+  sideView = $state<SideView>('answer');
+  // Calibration flow
+  standardId = $state('Au');
+  calibrationDraft = $state.raw<CalibrationDraft | null>(null);
+  savedCalibration = $state.raw<SavedCalibration | null>(null);
+  calibrationError = $state<string | null>(null);
+  instrumentHistory = $state.raw<CalibrationHistory | null>(null);
+  // Check flow
+  expectedPhaseId = $state('TiN');
+  toleranceText = $state('0.5%');
+  checkCalibrationName = $state<string | null>(null);
+  sampleIdText = $state('');
+  operatorText = $state('');
+  checkOutcome = $state.raw<CheckOutcome | null>(null);
+  checkError = $state<string | null>(null);
+  phaseRecords = $state.raw<PhaseHistory | null>(null);
+  // Exports
+  exportNotice = $state<string | null>(null);
 
   readonly phases = phaseLibrary();
   readonly #backend: Backend;
@@ -179,7 +225,10 @@ export class Workspace {
     this.#analyze(file.name, bytes, source);
     this.#backend.fingerprintImage(file.name, copy).then(
       (m) => {
-        if (this.source === source) this.source = { ...source, sha256: m.sha256 };
+        // The fingerprint may arrive before or after the worker's decoded image.
+        source.sha256 = m.sha256;
+        if (this.source === source) this.source = { ...source };
+        if (this.calibrationDraft && this.calibrationDraft.source.name === source.name && !this.calibrationDraft.source.sha256) this.calibrationDraft = { ...this.calibrationDraft, source: { name: source.name, sha256: m.sha256 } };
       },
       () => {},
     );
@@ -206,12 +255,12 @@ export class Workspace {
     if (this.calibrationName) {
       const c = this.calibrations?.calibrations.find((x) => x.name === this.calibrationName);
       if (c) {
-        const cal = calibratedCamera(c, nominal.value.voltageV);
+        const cal = calibrationCamera(c, nominal.value.voltageV, this.phases);
         if (!cal.ok) {
           this.cameraError = cal.message;
           return null;
         }
-        return cal.value;
+        return cal.camera;
       }
     }
     return nominal.value;
@@ -292,6 +341,11 @@ export class Workspace {
         this.source = this.#pendingSource;
         this.predictedPhaseId = null;
         this.dragStats = null;
+        this.calibrationDraft = null;
+        this.checkOutcome = null;
+        this.checkError = null;
+        this.calibrationError = null;
+        this.sampleIdText = fileStem(this.#pendingSource?.sample?.id ?? m.image.name);
         return;
       case 'result':
         if (this.#centreInFlight) {
@@ -308,8 +362,34 @@ export class Workspace {
       case 'mask':
         this.mask = { width: m.width, height: m.height, excluded: m.excluded };
         return;
+      case 'calibration':
+        this.busy = null;
+        this.calibrationDraft = { outcome: m.outcome, problems: m.problems, source: { name: this.source?.name ?? 'pattern', sha256: this.source?.sha256 ?? null } };
+        return;
+      case 'check':
+        this.busy = null;
+        this.result = m.result;
+        this.#finishCheck(m.check);
+        return;
+      case 'export': {
+        this.busy = null;
+        const pending = this.#pendingExport;
+        this.#pendingExport = null;
+        pending?.resolve(m.bytes);
+        return;
+      }
       case 'error':
         this.busy = null;
+        if (this.#pendingExport) {
+          this.#pendingExport.reject(new Error(m.message));
+          this.#pendingExport = null;
+          return;
+        }
+        if (this.#checkRequest) {
+          this.checkError = m.message;
+          this.#checkRequest = null;
+          return;
+        }
         this.#centreInFlight = false;
         if (m.reason === 'image') {
           this.error = `${m.message}`;
@@ -319,6 +399,222 @@ export class Workspace {
           this.error = m.message;
         }
         return;
+    }
+  }
+
+  // ---- Calibration flow ------------------------------------------------------------
+
+  /** Fits the camera on the open pattern's rings of the chosen standard (in the worker). */
+  runCalibration(): void {
+    this.calibrationError = null;
+    this.savedCalibration = null;
+    if (!this.result || this.result.status !== 'ok') {
+      this.calibrationError = 'there is no measured pattern to calibrate on; open an image of the standard film first';
+      return;
+    }
+    const nominal = nominalCamera(this.cameraText);
+    this.#client.send({ kind: 'calibrate', standardId: this.standardId, nominalCameraLengthPx: nominal.ok ? nominal.value.cameraLengthPx : null });
+    this.busy = { what: `Calibrating on ${this.standardId}`, stage: 'fitting the camera length', fraction: 0.5 };
+  }
+
+  /** Saves the fitted calibration under `name`; a name already in the store is refused and nothing is replaced. */
+  async saveCalibration(name: string, instrument: string): Promise<boolean> {
+    this.calibrationError = null;
+    const draft = this.calibrationDraft;
+    if (!draft || !draft.outcome.ok || draft.problems.length) {
+      this.calibrationError = 'there is no trusted fit to save; run the calibration first';
+      return false;
+    }
+    const trimmed = name.trim();
+    if (!trimmed) {
+      this.calibrationError = 'the calibration needs a name, e.g. "TEM-2 200kV 0.8m March"; type one and save again';
+      return false;
+    }
+    const sha = draft.source.sha256 ?? this.source?.sha256 ?? null;
+    if (!sha) {
+      this.calibrationError = "the image's fingerprint is still being computed; wait a moment and save again";
+      return false;
+    }
+    let lengthM: number | null = null;
+    let pixelM: number | null = null;
+    try {
+      lengthM = parseQuantity(this.cameraText.cameraLength, 'length', 'camera length');
+      pixelM = parseQuantity(this.cameraText.pixelSize, 'length', 'pixel size');
+    } catch (e) {
+      if (!(e instanceof QuantityError)) throw e;
+    }
+    const record = calibrationRecord(draft.outcome.calibration, this.result!, {
+      name: trimmed,
+      instrument: instrument.trim() || null,
+      nominalCameraLengthM: lengthM,
+      pixelSizeM: pixelM,
+      image: { sha256: sha, path: draft.source.name },
+    });
+    try {
+      this.savedCalibration = await this.#backend.saveCalibration(record);
+    } catch (e) {
+      this.calibrationError = messageOf(e);
+      return false;
+    }
+    await this.refreshCalibrations();
+    await this.loadInstrumentHistory(instrument.trim() || null);
+    return true;
+  }
+
+  async loadInstrumentHistory(instrument: string | null): Promise<void> {
+    try {
+      this.instrumentHistory = await this.#backend.calibrationHistory(instrument);
+    } catch (e) {
+      this.calibrationError = messageOf(e);
+    }
+  }
+
+  // ---- Check flow -------------------------------------------------------------------
+
+  #checkRequest: { calibration: CalibrationSummary; budget: CameraUncertaintyBudget; tolerance: number; sampleId: string; operator: string | null } | null = null;
+
+  /** Applies the chosen calibration, checks the pattern against the expected phase (worker), records the check and loads the phase's history. */
+  runCheck(): void {
+    this.checkError = null;
+    this.checkOutcome = null;
+    if (!this.result || !this.image) {
+      this.checkError = 'there is no pattern to check; open the film\'s image first';
+      return;
+    }
+    let tolerance: number;
+    try {
+      tolerance = parseRelative(this.toleranceText, 'tolerance');
+    } catch (e) {
+      this.checkError = messageOf(e);
+      return;
+    }
+    if (!(tolerance > 0 && tolerance < 0.5)) {
+      this.checkError = `tolerance: ${this.toleranceText} is not between 0 and 50 %; give the lab's tolerance on a, e.g. 0.5%`;
+      return;
+    }
+    const c = this.calibrations?.calibrations.find((x) => x.name === this.checkCalibrationName);
+    if (!c) {
+      this.checkError = 'choose a saved calibration: a check needs a calibrated camera (calibrate on the standard in the Calibrate view first)';
+      return;
+    }
+    const nominal = nominalCamera(this.cameraText);
+    const cal = calibrationCamera(c, nominal.ok ? nominal.value.voltageV : c.voltageV, this.phases);
+    if (!cal.ok) {
+      this.checkError = cal.message;
+      return;
+    }
+    const sampleId = this.sampleIdText.trim() || fileStem(this.source?.name ?? 'pattern');
+    this.#checkRequest = { calibration: c, budget: cal.budget, tolerance, sampleId, operator: this.operatorText.trim() || null };
+    this.calibrationName = c.name; // the camera in use is the calibration's from here on
+    this.#client.send({ kind: 'check', camera: cal.camera, budget: cal.budget, expectedId: this.expectedPhaseId, tolerance });
+    this.busy = { what: `Checking against ${this.expectedPhaseId}`, stage: 'indexing with the calibrated camera', fraction: 0.5 };
+  }
+
+  #finishCheck(check: FilmCheck): void {
+    const req = this.#checkRequest;
+    this.#checkRequest = null;
+    if (!req || !this.result) return;
+    const outcome: CheckOutcome = { check, calibration: req.calibration, budget: req.budget, sampleId: req.sampleId, operator: req.operator, recordedId: null, recordError: null };
+    this.checkOutcome = outcome;
+    const sha = this.source?.sha256;
+    if (!sha) {
+      this.checkOutcome = { ...outcome, recordError: "not recorded: the image's fingerprint is not known yet; run the check again in a moment" };
+      return;
+    }
+    const result = this.result;
+    void (async () => {
+      try {
+        const added = await this.#backend.recordCheck({
+          sampleId: req.sampleId,
+          operator: req.operator,
+          imageSha256: sha,
+          imagePath: this.source?.name ?? null,
+          calibration: req.calibration.name,
+          phase: check.expected.phase,
+          aA: check.measured?.aA ?? null,
+          aSigmaA: check.measured?.aSigmaA ?? null,
+          verdict: check.verdict,
+          tolerance: req.tolerance,
+          result: checkJson(check, req.calibration.name, result),
+        });
+        if (this.checkOutcome === outcome) this.checkOutcome = { ...outcome, recordedId: added.id };
+      } catch (e) {
+        if (this.checkOutcome === outcome) this.checkOutcome = { ...outcome, recordError: `not recorded: ${messageOf(e)}` };
+      }
+      await this.loadPhaseRecords(check.expected.phase);
+    })();
+  }
+
+  async loadPhaseRecords(phase: string): Promise<void> {
+    try {
+      this.phaseRecords = await this.#backend.phaseHistory(phase);
+    } catch (e) {
+      this.checkError = messageOf(e);
+    }
+  }
+
+  // ---- Exports ----------------------------------------------------------------------
+
+  #pendingExport: { resolve: (bytes: Uint8Array) => void; reject: (e: Error) => void } | null = null;
+
+  #stem(): string {
+    return fileStem(this.checkOutcome?.sampleId ?? this.source?.sample?.id ?? this.source?.name ?? 'pattern');
+  }
+
+  #reportCalibration(): { calibration: ReportCalibration | null; budget: CameraUncertaintyBudget | null } {
+    const name = this.checkOutcome?.calibration.name ?? this.calibrationName;
+    const c = this.calibrations?.calibrations.find((x) => x.name === name);
+    if (!c || !this.result?.camera.calibrated) return { calibration: null, budget: null };
+    const cal = calibrationCamera(c, c.voltageV, this.phases);
+    return {
+      calibration: { name: c.name, date: c.created.slice(0, 10), standard: c.standardPhaseId, cameraLengthPx: c.cameraLengthPx, cameraLengthSigmaPx: c.cameraLengthSigmaPx, ...(c.instrument ? { instrument: c.instrument } : {}) },
+      budget: cal.ok ? cal.budget : null,
+    };
+  }
+
+  #workerExport(what: 'pdf' | 'png'): Promise<Uint8Array> {
+    const sha = this.source?.sha256;
+    if (!sha) return Promise.reject(new Error("the image's fingerprint is still being computed; export again in a moment"));
+    const { calibration, budget } = this.#reportCalibration();
+    const report: ReportRequest = {
+      sampleId: this.#stem(),
+      operator: this.checkOutcome?.operator ?? null,
+      image: { path: this.source?.name ?? 'pattern', sha256: sha },
+      check: this.checkOutcome?.check ?? null,
+      calibration,
+      cameraUncertainty: budget,
+      predictedPhaseId: this.predictedPhase?.id ?? null,
+      date: new Date().toISOString(),
+    };
+    return new Promise((resolvePromise, rejectPromise) => {
+      this.#pendingExport = { resolve: resolvePromise, reject: rejectPromise };
+      this.#client.send({ kind: 'export', what, report });
+      this.busy = { what: what === 'pdf' ? 'Writing the PDF report' : 'Drawing the image with its overlays', stage: 'rendering', fraction: 0.5 };
+    });
+  }
+
+  /** Exports the PDF report, the CSV ring table, the JSON or the PNG: a download in browser mode, the save dialog in the desktop app. */
+  async exportFile(what: 'pdf' | 'csv' | 'json' | 'png'): Promise<void> {
+    this.exportNotice = null;
+    if (!this.result) {
+      this.error = 'there is nothing to export yet; open an image first';
+      return;
+    }
+    try {
+      let bytes: Uint8Array;
+      const enc = new TextEncoder();
+      if (what === 'csv') bytes = enc.encode(ringTableCsv(this.result));
+      else if (what === 'json') {
+        const o = this.checkOutcome;
+        const json = o ? checkJson(o.check, o.calibration.name, this.result) : { ...this.result, image: { name: this.source?.name ?? null, sha256: this.source?.sha256 ?? null } };
+        bytes = enc.encode(JSON.stringify(json, null, 2) + '\n');
+      } else bytes = await this.#workerExport(what);
+      const label = { pdf: 'report', csv: 'rings', json: this.checkOutcome ? 'check' : 'analysis', png: 'overlay' }[what];
+      const where = await this.#backend.saveExport(exportName(this.#stem(), label, what), what, bytes);
+      this.exportNotice = where ? `Saved ${where} (${bytes.byteLength.toLocaleString('en')} bytes)` : 'Export cancelled: nothing was written.';
+    } catch (e) {
+      this.busy = null;
+      this.error = `the export was not made: ${messageOf(e)}`;
     }
   }
 }

@@ -3,7 +3,7 @@
  * be installed on build machines): window options, security settings, IPC validation
  * and the chosen-path allow-list.
  */
-import { mkdtemp, rm, writeFile } from 'node:fs/promises';
+import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -11,7 +11,7 @@ import { ChosenPaths } from '../../../../app/electron/chosen-paths';
 import { applicationMenuTemplate } from '../../../../app/electron/app-menu';
 import { openDesktopWorkspace, registerDesktopScheme, type ElectronApi } from '../../../../app/electron/desktop-main';
 import { workspaceResponse } from '../../../../app/electron/desktop-protocol';
-import { CHOOSE_SAVE_PATH, handlerChannel, OPEN_IMAGE_DIALOG } from '../../../../app/electron/ipc-channels';
+import { CHOOSE_SAVE_PATH, handlerChannel, OPEN_IMAGE_DIALOG, RENDERER_HANDLERS } from '../../../../app/electron/ipc-channels';
 import { trustedSender, wireIpc } from '../../../../app/electron/ipc-wiring';
 import { guardWebContents } from '../../../../app/electron/web-contents-guards';
 import { mainWindowOptions } from '../../../../app/electron/window-options';
@@ -79,7 +79,11 @@ describe('wireIpc', () => {
 
   it('registers one channel per renderer handler plus the two dialogs, and no raw file reading', () => {
     const { channels } = wired();
-    expect(channels).toEqual([...['list-samples', 'read-sample', 'fingerprint-image', 'list-calibrations', 'find-calibration'].map(handlerChannel), OPEN_IMAGE_DIALOG, CHOOSE_SAVE_PATH]);
+    expect(channels).toEqual([
+      ...['list-samples', 'read-sample', 'fingerprint-image', 'list-calibrations', 'find-calibration', 'save-calibration', 'calibration-history', 'record-check', 'phase-history', 'write-report'].map(handlerChannel),
+      OPEN_IMAGE_DIALOG,
+      CHOOSE_SAVE_PATH,
+    ]);
     expect(channels).not.toContain(handlerChannel('read-chosen-image'));
   });
 
@@ -131,6 +135,21 @@ describe('wireIpc', () => {
     expect(chosen.mayWrite(target)).toBe(true);
     expect(chosen.mayRead(target)).toBe(false);
   });
+
+  it('writes an export only to the path chosen in the save dialog', async () => {
+    const target = join(dir, 'chosen.csv');
+    const { ipc } = wired(null, target);
+    const write = ipc.channels.get(handlerChannel('write-report'))!;
+    const early = (await write(fromWorkspace, { path: target, bytes: new Uint8Array([65]) })) as { ok: boolean; error: { code: string } };
+    expect(early.ok).toBe(false);
+    expect(early.error.code).toBe('not-allowed');
+    await ipc.channels.get(CHOOSE_SAVE_PATH)!(fromWorkspace, { suggestedName: 'chosen.csv', extension: 'csv' });
+    const other = (await write(fromWorkspace, { path: join(dir, 'elsewhere.csv'), bytes: new Uint8Array([65]) })) as { ok: boolean };
+    expect(other.ok).toBe(false);
+    const done = (await write(fromWorkspace, { path: target, bytes: new Uint8Array([65, 66]) })) as { ok: boolean; value: { byteLength: number } };
+    expect(done).toEqual({ ok: true, value: { path: target, byteLength: 2 } });
+    expect((await readFile(target)).toString()).toBe('AB');
+  });
 });
 
 describe('workspaceResponse', () => {
@@ -180,7 +199,7 @@ describe('openDesktopWorkspace', () => {
     expect(log).toContain('protocol annula');
     expect(log).toEqual(expect.arrayContaining(['permissions denied', 'on will-navigate', 'on will-redirect', 'on will-attach-webview', 'window-open handler', 'menu 3', 'load annula://workspace/index.html']));
     expect((windowOptions as { webPreferences: { sandbox: boolean } }).webPreferences.sandbox).toBe(true);
-    expect(ipc.channels.size).toBe(7);
+    expect(ipc.channels.size).toBe(RENDERER_HANDLERS.length + 2);
   });
 });
 

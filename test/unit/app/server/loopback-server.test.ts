@@ -129,13 +129,19 @@ describe('startLoopbackServer', () => {
     expect(json(missing).error!.message).toBe('there is no sample "no-such-sample"; choose one of the bundled samples');
   });
 
-  it('names unknown and planned handlers apart', async () => {
+  it('names an unknown handler, and serves save-calibration with its schema', async () => {
     const unknown = await call(server.port, 'POST', '/api/format-disk', { ...auth(), 'Content-Type': 'application/json' }, '{}');
     expect(unknown.status).toBe(404);
     expect(json(unknown).error!.code).toBe('unknown-handler');
-    const planned = await call(server.port, 'POST', '/api/save-calibration', { ...auth(), 'Content-Type': 'application/json' }, '{}');
-    expect(planned.status).toBe(501);
-    expect(json(planned).error!.message).toContain('annula calibrate');
+    const empty = await call(server.port, 'POST', '/api/save-calibration', { ...auth(), 'Content-Type': 'application/json' }, '{}');
+    expect(empty.status).toBe(400);
+    expect(json(empty).error!.message).toMatch(/save-calibration: calibration/);
+  });
+
+  it('never writes a file in browser mode: exports are downloads', async () => {
+    const r = await call(server.port, 'POST', '/api/write-report', { ...auth(), 'Content-Type': 'application/json' }, JSON.stringify({ path: join(samplesDir, 'x.pdf'), bytes: [1] }));
+    expect(r.status).toBe(400);
+    expect(json(r).error!.code).toBe('invalid-input');
   });
 
   it('never reads a path in browser mode', async () => {
