@@ -18,7 +18,6 @@
 import { availableParallelism } from 'node:os';
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
 import type { Raster } from '../../core/image/raster';
-import type { PixelMask } from '../../core/rings/pixel-mask';
 import { ROW_BAND_PASSES } from '../../core/rings/row-band-passes';
 import type { RowBand, RowBandImages, RowBandParams, RowBandPassName, RowBandResult, RowBandRunner } from '../../core/rings/row-bands';
 import type { RowBandAnswer, RowBandTask, RowBandWorkerData } from './row-band-protocol';
@@ -60,8 +59,28 @@ function inSharedMemory<T extends Float32Array | Uint8Array>(a: T): T {
   return copy;
 }
 
-function sharedMask(mask: PixelMask | null): PixelMask | null {
-  return mask ? { width: mask.width, height: mask.height, excluded: inSharedMemory(mask.excluded) } : null;
+/**
+ * Shared memory for the copies one run() needs, kept between runs: the pipeline hands
+ * several passes in a row the same unshared mask, and a fresh 16 MiB buffer per pass
+ * (allocation, zeroing, page faults, garbage) cost more than copying into the same one.
+ * Safe because run() is synchronous: the threads are done with a copy before it returns.
+ */
+class SharedScratch {
+  private floats: Float32Array | null = null;
+  private bytes: Uint8Array | null = null;
+
+  /** `a` itself when its memory is shared, else its values copied into this scratch's buffer of its type. */
+  hold<T extends Float32Array | Uint8Array>(a: T): T {
+    if (a.buffer instanceof SharedArrayBuffer) return a;
+    if (a instanceof Float32Array) {
+      if (this.floats?.length !== a.length) this.floats = new Float32Array(new SharedArrayBuffer(a.byteLength));
+      this.floats.set(a);
+      return this.floats as T;
+    }
+    if (this.bytes?.length !== a.length) this.bytes = new Uint8Array(new SharedArrayBuffer(a.byteLength));
+    this.bytes.set(a);
+    return this.bytes as T;
+  }
 }
 
 /**
@@ -75,6 +94,7 @@ export function startRowBandPool(options: RowBandPoolOptions = {}): RowBandPool 
   for (let k = 1; k < threads; k++) pool.push(startThread());
   let seq = 0;
   let closed = false;
+  const scratch = new SharedScratch();
 
   const alive = (t: Thread) => !t.failed && t.worker.threadId !== -1 && Atomics.load(t.signal, 1) === 1;
 
@@ -85,8 +105,8 @@ export function startRowBandPool(options: RowBandPoolOptions = {}): RowBandPool 
     const ready = closed ? [] : pool.filter(alive);
     const sent: Array<{ thread: Thread; index: number; seq: number }> = [];
     if (bands.length > 1 && ready.length > 0) {
-      const raster = { width: images.raster.width, height: images.raster.height, data: inSharedMemory(images.raster.data) };
-      const mask = sharedMask(images.mask);
+      const raster = { width: images.raster.width, height: images.raster.height, data: scratch.hold(images.raster.data) };
+      const mask = images.mask ? { width: images.mask.width, height: images.mask.height, excluded: scratch.hold(images.mask.excluded) } : null;
       for (let index = 1; index < bands.length && sent.length < ready.length; index++) {
         const thread = ready[sent.length]!;
         const task: RowBandTask = { seq: ++seq, pass, params, band: bands[index]!, raster, mask };

@@ -89,6 +89,7 @@ export function analyze(raster: Raster, settings: AnalysisSettings, onProgress: 
   const refined = refineFrame(raster, masks.mask, {
     ...(settings.startFrame ? { start: settings.startFrame } : {}),
     fitDistortion: settings.fitDistortion ?? true,
+    ...(runtime.rowBands ? { rowBands: runtime.rowBands } : {}),
   }, cv);
   onProgress('geometry', 1);
   timingsMs.geometry = now() - t;

@@ -40,6 +40,7 @@ import type { OpenCv } from '../image/opencv-handle';
 import type { Raster } from '../image/raster';
 import type { PixelMask } from './pixel-mask';
 import { checkMaskSize } from './mask-combine';
+import { MIN_BAND_PIXELS, splitRows, type RowBand, type RowBandImages, type RowBandRunner } from './row-bands';
 
 export interface CenterEstimateOptions {
   /** Long side of the working image, px (64-2048, default 512). */
@@ -77,9 +78,10 @@ export type CenterEstimate =
  * @param raster the image
  * @param mask excluded pixels (beam stop, saturated, hot, user polygons); optional
  * @param cv an OpenCV handle (opencv-wasm), loaded by the surface
+ * @param runner runs the block sums on bands of rows (e.g. a worker pool); default this thread
  * @throws RangeError for options out of range or a mask of another size
  */
-export function estimateCenter(raster: Raster, mask: PixelMask | undefined, cv: OpenCv, options: CenterEstimateOptions = {}): CenterEstimate {
+export function estimateCenter(raster: Raster, mask: PixelMask | undefined, cv: OpenCv, options: CenterEstimateOptions = {}, runner?: RowBandRunner): CenterEstimate {
   const { width, height } = raster;
   if (mask) checkMaskSize(mask, width, height);
   const workingSizePx = options.workingSizePx ?? 512;
@@ -88,29 +90,26 @@ export function estimateCenter(raster: Raster, mask: PixelMask | undefined, cv: 
   if (!(workingSizePx >= 64 && workingSizePx <= 2048)) throw new RangeError(`workingSizePx must be 64 to 2048; got ${workingSizePx}`);
   if (!(smoothingSigma >= 0.5 && smoothingSigma <= 10)) throw new RangeError(`smoothingSigma must be 0.5 to 10 coarse px; got ${smoothingSigma}`);
   if (!(margin >= 0 && margin <= 2)) throw new RangeError(`searchMarginFraction must be 0 to 2; got ${margin}`);
-  // Integer block averaging (blocks at the right and bottom edges may be partial).
+  // Integer block averaging (blocks at the right and bottom edges may be partial), on bands
+  // of whole block rows so that every band's sums are exactly those of one thread.
   const f = Math.max(1, Math.ceil(Math.max(width, height) / workingSizePx));
   const cw = Math.ceil(width / f);
   const ch = Math.ceil(height / f);
   const blockSum = new Float32Array(cw * ch);
   const blockWeight = new Float32Array(cw * ch);
-  const src = raster.data;
-  const ex = mask?.excluded;
-  for (let j = 0; j < height; j++) {
-    const crow = Math.floor(j / f) * cw;
-    const row = j * width;
-    for (let c0 = 0; c0 < cw; c0++) {
-      const i1 = Math.min(width, (c0 + 1) * f);
-      let sum = 0, count = 0;
-      for (let p = row + c0 * f; p < row + i1; p++) {
-        const v = src[p]!;
-        if ((ex !== undefined && ex[p] === 1) || !(v === v) || v === Infinity || v === -Infinity) continue;
-        sum += v;
-        count++;
-      }
-      blockSum[crow + c0] += sum;
-      blockWeight[crow + c0] += count;
-    }
+  const images = { raster, mask: mask ?? null };
+  const plan: CenterBlockPlan = { blockPx: f };
+  const count = runner ? Math.min(runner.bandCount, Math.floor((width * height) / MIN_BAND_PIXELS)) : 1;
+  if (!runner || count <= 1) {
+    const part = centerBlockRowsPass(images, plan, { rowStart: 0, rowEnd: height });
+    blockSum.set(part.sum);
+    blockWeight.set(part.weight);
+  } else {
+    const bands = splitRows(ch, Math.min(count, ch)).map((b) => ({ rowStart: b.rowStart * f, rowEnd: Math.min(height, b.rowEnd * f) }));
+    runner.run('centerBlockSums', images, plan, bands).forEach((part, k) => {
+      blockSum.set(part.sum, (bands[k]!.rowStart / f) * cw);
+      blockWeight.set(part.weight, (bands[k]!.rowStart / f) * cw);
+    });
   }
   const scale = f;
   for (let c = 0; c < blockSum.length; c++) {
@@ -277,4 +276,44 @@ function drawLine(acc: Float32Array, aw: number, ah: number, x0: number, y0: num
       acc[y * aw + xi + 1] += fx;
     }
   }
+}
+
+/** The block size of the working image (plain data for a row-band pass). */
+export interface CenterBlockPlan {
+  /** Full px per coarse px, f. */
+  blockPx: number;
+}
+
+/**
+ * Block sums of rows [rowStart, rowEnd) (rowStart a multiple of f): for each coarse
+ * pixel of block rows rowStart / f .. ceil(rowEnd / f) - 1, the float32 sum of its
+ * usable pixel values (unmasked, finite), added row by row, and their count.
+ */
+export function centerBlockRowsPass(images: RowBandImages, plan: CenterBlockPlan, band: RowBand): { sum: Float32Array; weight: Float32Array } {
+  const { width, data } = images.raster;
+  const ex = images.mask ? images.mask.excluded : null;
+  const f = plan.blockPx;
+  const cw = Math.ceil(width / f);
+  const first = Math.floor(band.rowStart / f);
+  const rows = Math.ceil(band.rowEnd / f) - first;
+  const blockSum = new Float32Array(cw * Math.max(0, rows));
+  const blockWeight = new Float32Array(cw * Math.max(0, rows));
+  for (let j = band.rowStart; j < band.rowEnd; j++) {
+    const crow = (Math.floor(j / f) - first) * cw;
+    const row = j * width;
+    for (let c0 = 0; c0 < cw; c0++) {
+      const i1 = Math.min(width, (c0 + 1) * f);
+      let sum = 0, count = 0;
+      for (let p = row + c0 * f; p < row + i1; p++) {
+        const v = data[p]!;
+        // v - v is 0 for a finite value, NaN for NaN and infinities.
+        if ((ex !== null && ex[p] === 1) || v - v !== 0) continue;
+        sum += v;
+        count++;
+      }
+      blockSum[crow + c0] += sum;
+      blockWeight[crow + c0] += count;
+    }
+  }
+  return { sum: blockSum, weight: blockWeight };
 }

@@ -17,7 +17,7 @@
  */
 import type { Raster } from '../image/raster';
 import type { PixelMask } from './pixel-mask';
-import { medianInPlace } from './sample-median';
+import { medianInPlace, selectTwoInPlace } from './sample-median';
 
 export interface PixelNoiseModel {
   /** Variance at level 0, (data units)^2 (may be negative when the camera adds a pedestal). */
@@ -65,9 +65,8 @@ export function estimatePixelNoise(raster: Raster, mask?: PixelMask): PixelNoise
   // Level bins equally spaced in sqrt(level - low) between the 0.1 % and 99.9 % quantiles
   // (Poisson-like variance grows with level, so this spreads the bins over the range the
   // line must span; equal-count bins would crowd into the dark background).
-  const sortedLevels = Float64Array.from(levels).sort();
-  const low = sortedLevels[Math.floor(0.001 * (n - 1))]!;
-  const high = sortedLevels[Math.floor(0.999 * (n - 1))]!;
+  // The two quantiles by selection (exactly the elements a sort would put at those ranks).
+  const [low, high] = selectTwoInPlace(Float64Array.from(levels), Math.floor(0.001 * (n - 1)), Math.floor(0.999 * (n - 1)));
   const span = Math.sqrt(Math.max(high - low, 0));
   const members: number[][] = Array.from({ length: LEVEL_BINS }, () => []);
   const levelSum = new Float64Array(LEVEL_BINS);

@@ -37,7 +37,7 @@
 import type { OpenCv } from '../image/opencv-handle';
 import type { Raster } from '../image/raster';
 import type { PixelMask } from './pixel-mask';
-import { medianOf } from './sample-median';
+import { medianOf, selectTwoInPlace } from './sample-median';
 
 export interface BeamStopOptions {
   /** Where the direct beam probably is (pixels), to choose among several dark regions. */
@@ -114,9 +114,8 @@ export function maskBeamStop(raster: Raster, cv: OpenCv, options: BeamStopOption
     const smooth = track(new cv.Mat());
     cv.GaussianBlur(coarse, smooth, new cv.Size(0, 0), 1, 1, cv.BORDER_REFLECT);
     const s = Float32Array.from(smooth.data32F as Float32Array);
-    const sorted = Float32Array.from(s).sort();
-    const darkLevel = sorted[Math.floor(0.0005 * (sorted.length - 1))]!;
-    const typical = sorted[Math.floor(0.5 * (sorted.length - 1))]!;
+    // The 0.05 % and 50 % order statistics by selection (the elements a sort would put there).
+    const [darkLevel, typical] = selectTwoInPlace(Float64Array.from(s), Math.floor(0.0005 * (s.length - 1)), Math.floor(0.5 * (s.length - 1)));
     if (!(typical > darkLevel)) return empty('the image is flat: no dark region stands out', darkLevel, darkLevel);
     const threshold = darkLevel + darkFraction * (typical - darkLevel);
 
@@ -197,6 +196,9 @@ export function maskBeamStop(raster: Raster, cv: OpenCv, options: BeamStopOption
     let touchesBorder = false;
     for (let cy = 0; cy < ch; cy++) {
       let rowArea = 0;
+      let any = 0;
+      for (let c = cy * cw; c < (cy + 1) * cw; c++) any |= grownCoarse[c]!;
+      if (any === 0) continue; // nothing grown in this block row, so nothing in the region either (dilation covers it)
       for (let i = 0; i < width; i++) {
         const c = Math.floor(i / f);
         row[i] = grownCoarse[cy * cw + c]!;

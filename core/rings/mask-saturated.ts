@@ -47,7 +47,8 @@ export function maskSaturated(raster: Raster, options: SaturatedMaskOptions): Sa
     }
   }
   const dilatePx = options.dilatePx ?? 1;
-  const mask = dilateMask({ width, height, excluded }, dilatePx);
+  // Nothing saturated: the margin of nothing is nothing (dilateMask would scan the empty mask twice).
+  const mask = saturatedCount === 0 && Number.isInteger(dilatePx) && dilatePx >= 0 ? { width, height, excluded } : dilateMask({ width, height, excluded }, dilatePx);
   return { mask, saturationLevel: level, saturatedCount };
 }
 

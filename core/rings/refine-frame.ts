@@ -36,6 +36,7 @@ import { roundFrame, validateFrame, type PatternFrame } from './pattern-frame';
 import type { PixelMask } from './pixel-mask';
 import { findRingCandidates, type RingCandidate } from './ring-candidates';
 import { sampleRingPoints, type RingPointOptions, type RingWindow } from './ring-points';
+import type { RowBandRunner } from './row-bands';
 
 export interface RefineFrameOptions {
   /** Start from this frame instead of the first estimate (no OpenCV needed then). */
@@ -58,6 +59,8 @@ export interface RefineFrameOptions {
   ringPoints?: Omit<RingPointOptions, 'noise'>;
   /** Trim rule of the concentric fit (default 3.5 robust sigmas). */
   rejectSigmas?: number;
+  /** Runs the pixel sums of the centre estimate, the ring search and the ring points on bands of rows, e.g. a worker pool (default: this thread; changes only the time). */
+  rowBands?: RowBandRunner;
 }
 
 export interface RefinedRing {
@@ -120,13 +123,13 @@ export function refineFrame(raster: Raster, mask: PixelMask | undefined, options
     frame = { ...options.start };
   } else {
     if (!cv) throw new RangeError('refineFrame needs an OpenCV handle (cv) for the first centre estimate, or options.start');
-    firstEstimate = estimateCenter(raster, mask, cv, options.centerEstimate);
+    firstEstimate = estimateCenter(raster, mask, cv, options.centerEstimate, options.rowBands);
     if (!firstEstimate.ok) return { ok: false, reason: firstEstimate.reason, frame: null, firstEstimate, warnings };
     frame = roundFrame(firstEstimate.centerXPx, firstEstimate.centerYPx);
   }
   const noise = options.noise === undefined ? estimatePixelNoise(raster, mask) : options.noise ?? undefined;
   const usableNoise = noise && noise.pairCount >= 48 ? noise : undefined;
-  const search = (f: PatternFrame) => findRingCandidates(raster, mask, f, { maxRings, minRadiusPx: options.minRadiusPx, maxRadiusPx: options.maxRadiusPx, minSnr: options.minRingSnr });
+  const search = (f: PatternFrame) => findRingCandidates(raster, mask, f, { maxRings, minRadiusPx: options.minRadiusPx, maxRadiusPx: options.maxRadiusPx, minSnr: options.minRingSnr, rowBands: options.rowBands });
   const found = search(frame);
   if (found.rings.length === 0) return { ok: false, reason: found.reason ?? 'no rings found', frame, firstEstimate, warnings };
 
@@ -151,7 +154,7 @@ export function refineFrame(raster: Raster, mask: PixelMask | undefined, options
     const quick = researches < 3 || shift > 0.2;
     const quickStride = Math.max(1, Math.min(3, Math.round(Math.sqrt((raster.width * raster.height) / 1.5e6))));
     const sampling: RingPointOptions = quick ? { maxWedges: 240, binPx: 1, ...options.ringPoints, pixelStride: quickStride } : { ...options.ringPoints };
-    const sets = sampleRingPoints(raster, mask, frame, windows.map((w) => w.window), { ...sampling, noise: usableNoise });
+    const sets = sampleRingPoints(raster, mask, frame, windows.map((w) => w.window), { ...sampling, noise: usableNoise }, options.rowBands);
     const used: number[] = [];
     sets.forEach((s, k) => { if (s.xPx.length >= 8) used.push(k); });
     if (used.length === 0) {

@@ -22,6 +22,7 @@ import type { Raster } from '../image/raster';
 import { frameTransform, validateFrame, type PatternFrame } from './pattern-frame';
 import type { PixelMask } from './pixel-mask';
 import { checkMaskSize } from './mask-combine';
+import { runRowBands, type RowBand, type RowBandImages, type RowBandRunner } from './row-bands';
 import { medianInPlace } from './sample-median';
 
 export interface RingCandidate {
@@ -52,6 +53,8 @@ export interface RingCandidateOptions {
    * it costs the profile a factor stride in signal-to-noise, not accuracy later.
    */
   pixelStride?: number;
+  /** Runs the profile sums on bands of rows, e.g. a worker pool (default: this thread; changes only the time, and for integer data not even the rounding). */
+  rowBands?: RowBandRunner;
 }
 
 export interface RingCandidateSearch {
@@ -67,7 +70,7 @@ export interface RingCandidateSearch {
  */
 export function findRingCandidates(raster: Raster, mask: PixelMask | undefined, frame: PatternFrame, options: RingCandidateOptions = {}): RingCandidateSearch {
   validateFrame(frame);
-  const { width, height, data } = raster;
+  const { width, height } = raster;
   if (mask) checkMaskSize(mask, width, height);
   const binWidthPx = options.binWidthPx ?? 1;
   const windowPx = options.baselineWindowPx ?? 40;
@@ -86,24 +89,12 @@ export function findRingCandidates(raster: Raster, mask: PixelMask | undefined, 
   const rMin = options.minRadiusPx ?? 8;
   const rMax = Math.min(options.maxRadiusPx ?? rFar, rFar);
   const nb = Math.max(1, Math.ceil((rMax - rMin) / binWidthPx));
-  const sum = new Float64Array(nb), sum2 = new Float64Array(nb), cnt = new Float64Array(nb);
-  const ex = mask?.excluded;
-  const inv = 1 / binWidthPx;
-  const { cx, cy, cos, sin, invQ, q } = t;
-  for (let j = 0; j < height; j += stride) {
-    const dy = j - cy;
-    const row = j * width;
-    for (let i = (j / stride) % stride; i < width; i += stride) {
-      const p = row + i;
-      if (ex !== undefined && ex[p] === 1) continue;
-      const dx = i - cx;
-      const u = dx * cos + dy * sin;
-      const v = dy * cos - dx * sin;
-      const b = Math.floor((Math.sqrt(u * u * invQ + v * v * q) - rMin) * inv);
-      if (b < 0 || b >= nb) continue;
-      const val = data[p]!;
-      sum[b] += val; sum2[b] += val * val; cnt[b]++;
-    }
+  const plan: RingCandidatePlan = { cx: t.cx, cy: t.cy, cos: t.cos, sin: t.sin, invQ: t.invQ, q: t.q, rMinPx: rMin, binWidthPx, binCount: nb, pixelStride: stride };
+  const parts = runRowBands(options.rowBands, 'ringCandidateSums', { raster, mask: mask ?? null }, plan, height, ringCandidateRowsPass);
+  const { sum, sum2, cnt } = parts[0]!;
+  for (let k = 1; k < parts.length; k++) {
+    const part = parts[k]!;
+    for (let b = 0; b < nb; b++) { sum[b] += part.sum[b]!; sum2[b] += part.sum2[b]!; cnt[b] += part.cnt[b]!; }
   }
   const radiusPx = Float64Array.from({ length: nb }, (_, b) => rMin + (b + 0.5) * binWidthPx);
   const mean = new Float64Array(nb), se = new Float64Array(nb);
@@ -183,4 +174,50 @@ function smoothMean(v: Float64Array, h: number): Float64Array {
     for (let k = Math.max(0, b - h); k <= Math.min(v.length - 1, b + h); k++) if (Number.isFinite(v[k]!)) { s += v[k]!; n++; }
     return n ? s / n : NaN;
   });
+}
+
+/** What the profile sums of findRingCandidates need (plain data, the same for every band of rows). */
+export interface RingCandidatePlan {
+  /** The trial frame (pattern-frame.ts frameTransform). */
+  cx: number;
+  cy: number;
+  cos: number;
+  sin: number;
+  invQ: number;
+  q: number;
+  rMinPx: number;
+  binWidthPx: number;
+  binCount: number;
+  pixelStride: number;
+}
+
+/**
+ * The profile sums of rows [rowStart, rowEnd): for each bin of corrected radius, the
+ * sum, the sum of squares and the count of the unmasked pixels on the staggered
+ * lattice (rows j = 0 mod stride, columns from (j / stride) mod stride in steps of
+ * stride). Sums over disjoint bands add up (exactly, for integer-valued images).
+ */
+export function ringCandidateRowsPass(images: RowBandImages, plan: RingCandidatePlan, band: RowBand): { sum: Float64Array; sum2: Float64Array; cnt: Float64Array } {
+  const { width, data } = images.raster;
+  const ex = images.mask ? images.mask.excluded : undefined;
+  const { cx, cy, cos, sin, invQ, q, rMinPx: rMin, binCount: nb, pixelStride: stride } = plan;
+  const inv = 1 / plan.binWidthPx;
+  const sum = new Float64Array(nb), sum2 = new Float64Array(nb), cnt = new Float64Array(nb);
+  const j0 = Math.ceil(band.rowStart / stride) * stride;
+  for (let j = j0; j < band.rowEnd; j += stride) {
+    const dy = j - cy;
+    const row = j * width;
+    for (let i = (j / stride) % stride; i < width; i += stride) {
+      const p = row + i;
+      if (ex !== undefined && ex[p] === 1) continue;
+      const dx = i - cx;
+      const u = dx * cos + dy * sin;
+      const v = dy * cos - dx * sin;
+      const b = Math.floor((Math.sqrt(u * u * invQ + v * v * q) - rMin) * inv);
+      if (b < 0 || b >= nb) continue;
+      const val = data[p]!;
+      sum[b] += val; sum2[b] += val * val; cnt[b]++;
+    }
+  }
+  return { sum, sum2, cnt };
 }

@@ -10,7 +10,9 @@
  * records the mean value, the count and the mean corrected radius of its pixels.
  * Using each pixel once, at its own radius, avoids the smoothing and the bias of
  * interpolating a noisy image. Wedges with less than minCoverage of their pixels
- * (masks, image edges) are skipped.
+ * (masks, image edges) are skipped. The cell sums are a row-band pass
+ * (accumulateRingPointRows: sums over bands of rows add up), so a worker pool can
+ * share them; the wedge fits below run here.
  *
  * Locating the peak. In each wedge the profile is fitted by weighted least
  * squares with a Gaussian of the ring's width sigma_k (held fixed) on a straight
@@ -39,6 +41,7 @@ import { noiseSigmaAt, type PixelNoiseModel } from './detector-noise-model';
 import { checkMaskSize } from './mask-combine';
 import { frameTransform, pixelAtCorrectedPolar, validateFrame, type PatternFrame } from './pattern-frame';
 import type { PixelMask } from './pixel-mask';
+import { runRowBands, type RowBand, type RowBandImages, type RowBandRunner } from './row-bands';
 
 export interface RingWindow {
   /** Trial radius (corrected), px. */
@@ -93,11 +96,12 @@ export interface RingPointSet {
  * @param mask excluded pixels, or undefined
  * @param frame the trial frame
  * @param rings the windows to search, one per ring
+ * @param runner runs the pixel sums on bands of rows (e.g. a worker pool); default this thread
  * @throws RangeError for a bad frame, mask size, window or option
  */
-export function sampleRingPoints(raster: Raster, mask: PixelMask | undefined, frame: PatternFrame, rings: RingWindow[], options: RingPointOptions = {}): RingPointSet[] {
+export function sampleRingPoints(raster: Raster, mask: PixelMask | undefined, frame: PatternFrame, rings: RingWindow[], options: RingPointOptions = {}, runner?: RowBandRunner): RingPointSet[] {
   validateFrame(frame);
-  const { width, height, data } = raster;
+  const { width, height } = raster;
   if (mask) checkMaskSize(mask, width, height);
   const arcPx = options.arcPx ?? 6;
   const minWedges = options.minWedges ?? 24;
@@ -123,51 +127,25 @@ export function sampleRingPoints(raster: Raster, mask: PixelMask | undefined, fr
   const A = t.cos * t.cos * t.invQ + t.q * t.sin * t.sin;
   const C = t.sin * t.sin * t.invQ + t.q * t.cos * t.cos;
   const B = t.cos * t.sin * (t.invQ - t.q);
-  const ex = mask?.excluded;
-
-  return rings.map((ring) => {
+  const ringPlans: RingPointRingPlan[] = rings.map((ring) => {
     const rIn = ring.radiusPx - ring.halfWindowPx;
     const rOut = ring.radiusPx + ring.halfWindowPx;
     const nw = Math.max(minWedges, Math.min(maxWedges, Math.round((2 * Math.PI * ring.radiusPx) / arcPx)));
     const nb = Math.ceil((rOut - rIn) / binPx);
-    const S = new Float64Array(nw * nb), N = new Float64Array(nw * nb), SR = new Float64Array(nw * nb);
     const dyMax = rOut * Math.sqrt(A);
     const j0 = Math.max(0, Math.ceil(t.cy - dyMax)), j1 = Math.min(height - 1, Math.floor(t.cy + dyMax));
+    return { rInPx: rIn, rOutPx: rOut, wedgeCount: nw, binCount: nb, rowFirst: j0, rowLast: j1 };
+  });
+  const plan: RingPointPlan = {
+    cx: t.cx, cy: t.cy, cos: t.cos, sin: t.sin, sqrtQ: t.sqrtQ, angleRad: t.angleRad, A, B, C,
+    binPx, pixelStride: stride, rings: ringPlans,
+  };
+  const sums = mergeRingPointSums(runRowBands(runner, 'ringPointSums', { raster, mask: mask ?? null }, plan, height, accumulateRingPointRowsPass));
+
+  return rings.map((ring, k) => {
+    const { rInPx: rIn, rOutPx: rOut, wedgeCount: nw, binCount: nb } = ringPlans[k]!;
+    const { S, N, SR } = sums[k]!;
     const wScale = nw / (2 * Math.PI);
-    const addPixel = (i: number, j: number) => {
-      const p = j * width + i;
-      if (ex && ex[p]) return;
-      const dx = i - t.cx, dy = j - t.cy;
-      const R = Math.sqrt(A * dx * dx + 2 * B * dx * dy + C * dy * dy);
-      if (R < rIn || R >= rOut) return;
-      const u = dx * t.cos + dy * t.sin, v = -dx * t.sin + dy * t.cos;
-      let az = Math.atan2(v * t.sqrtQ, u / t.sqrtQ) + t.angleRad;
-      if (az >= Math.PI) az -= 2 * Math.PI; else if (az < -Math.PI) az += 2 * Math.PI;
-      const w = Math.min(nw - 1, Math.floor((az + Math.PI) * wScale));
-      const b = Math.min(nb - 1, Math.floor((R - rIn) / binPx));
-      const cell = w * nb + b;
-      S[cell] += data[p]!; N[cell]++; SR[cell] += R;
-    };
-    for (let j = j0; j <= j1; j++) {
-      if (stride > 1 && j % stride !== 0) continue;
-      const phase = stride > 1 ? (j / stride) % stride : 0;
-      const dy = j - t.cy;
-      const span = (r: number): [number, number] | null => {
-        const disc = B * B * dy * dy - A * (C * dy * dy - r * r);
-        if (disc < 0) return null;
-        const s = Math.sqrt(disc);
-        return [(-B * dy - s) / A, (-B * dy + s) / A];
-      };
-      const outer = span(rOut);
-      if (!outer) continue;
-      const inner = rIn > 0 ? span(rIn) : null;
-      const first = (i: number) => (stride > 1 ? i + ((((phase - i) % stride) + stride) % stride) : i);
-      const lo = first(Math.max(0, Math.floor(t.cx + outer[0]) - 1)), hi = Math.min(width - 1, Math.ceil(t.cx + outer[1]) + 1);
-      if (!inner) { for (let i = lo; i <= hi; i += stride) addPixel(i, j); continue; }
-      const innerLo = Math.ceil(t.cx + inner[0]) + 1, innerHi = Math.floor(t.cx + inner[1]) - 1;
-      for (let i = lo; i <= Math.min(hi, innerLo - 1); i += stride) addPixel(i, j);
-      for (let i = first(Math.max(lo, innerHi + 1, innerLo)); i <= hi; i += stride) addPixel(i, j);
-    }
 
     // Expected pixel count of a full wedge: the annulus area over the wedge count.
     const fullWedge = (Math.PI * (rOut * rOut - rIn * rIn)) / nw / (stride * stride);
@@ -213,33 +191,63 @@ export function sampleRingPoints(raster: Raster, mask: PixelMask | undefined, fr
 
 interface WedgeFit { r0: number; r0Sigma: number; amplitude: number; amplitudeSigma: number; c0: number; c1: number }
 
+/**
+ * One wedge's data and the normal-equation entries that do not depend on r0 (basis g, 1, r):
+ * summed once per wedge, each in the order a sum per trial r0 would use, so to the same value.
+ */
+interface WedgeData {
+  r: Float64Array;
+  y: Float64Array;
+  w: Float64Array;
+  m: number;
+  inv2s2: number;
+  a11: number;
+  a12: number;
+  a22: number;
+  b1: number;
+  b2: number;
+  yy: number;
+}
+
+/** The linear least-squares solution for one trial r0. */
+interface WedgeSolution { chi2: number; amp: number; c0: number; c1: number; varAmp: number }
+
+/** Solves the linear part at r0 (amplitude, c0, c1 and chi^2); null when the normal matrix is singular. */
+function solveWedgeAt(d: WedgeData, r0: number): WedgeSolution | null {
+  const { r, y, w, m, inv2s2 } = d;
+  let a00 = 0, a01 = 0, a02 = 0, b0 = 0;
+  for (let k = 0; k < m; k++) {
+    const g = Math.exp(-((r[k]! - r0) ** 2) * inv2s2);
+    const wk = w[k]!, rk = r[k]!, yk = y[k]!;
+    a00 += wk * g * g; a01 += wk * g; a02 += wk * g * rk;
+    b0 += wk * g * yk;
+  }
+  const { b1, b2 } = d;
+  const inv = inverse3(a00, a01, a02, d.a11, d.a12, d.a22);
+  if (!inv) return null;
+  const p0 = inv[0] * b0 + inv[1] * b1 + inv[2] * b2;
+  const p1 = inv[1] * b0 + inv[3] * b1 + inv[4] * b2;
+  const p2 = inv[2] * b0 + inv[4] * b1 + inv[5] * b2;
+  // chi^2 = y'Wy - p'b at the linear least-squares solution.
+  return { chi2: Math.max(0, d.yy - (p0 * b0 + p1 * b1 + p2 * b2)), amp: p0, c0: p1, c1: p2, varAmp: inv[0] };
+}
+
 /** Variable-projection fit of a fixed-width Gaussian on a line; r0 searched in [lo, hi] (relative to the ring radius). */
 function fitWedge(r: Float64Array, y: Float64Array, w: Float64Array, m: number, sigma: number, lo: number, hi: number, scaleByChi2: boolean): WedgeFit | null {
-  const inv2s2 = 1 / (2 * sigma * sigma);
-  const solve = (r0: number) => {
-    // Normal equations for basis (g, 1, r).
-    let a00 = 0, a01 = 0, a02 = 0, a11 = 0, a12 = 0, a22 = 0, b0 = 0, b1 = 0, b2 = 0, yy = 0;
-    for (let k = 0; k < m; k++) {
-      const g = Math.exp(-((r[k]! - r0) ** 2) * inv2s2);
-      const wk = w[k]!, rk = r[k]!, yk = y[k]!;
-      a00 += wk * g * g; a01 += wk * g; a02 += wk * g * rk; a11 += wk; a12 += wk * rk; a22 += wk * rk * rk;
-      b0 += wk * g * yk; b1 += wk * yk; b2 += wk * rk * yk; yy += wk * yk * yk;
-    }
-    const inv = inverse3(a00, a01, a02, a11, a12, a22);
-    if (!inv) return null;
-    const p0 = inv[0] * b0 + inv[1] * b1 + inv[2] * b2;
-    const p1 = inv[1] * b0 + inv[3] * b1 + inv[4] * b2;
-    const p2 = inv[2] * b0 + inv[4] * b1 + inv[5] * b2;
-    // chi^2 = y'Wy - p'b at the linear least-squares solution.
-    return { chi2: Math.max(0, yy - (p0 * b0 + p1 * b1 + p2 * b2)), amp: p0, c0: p1, c1: p2, varAmp: inv[0] };
-  };
+  let a11 = 0, a12 = 0, a22 = 0, b1 = 0, b2 = 0, yy = 0;
+  for (let k = 0; k < m; k++) {
+    const wk = w[k]!, rk = r[k]!, yk = y[k]!;
+    a11 += wk; a12 += wk * rk; a22 += wk * rk * rk;
+    b1 += wk * yk; b2 += wk * rk * yk; yy += wk * yk * yk;
+  }
+  const data: WedgeData = { r, y, w, m, inv2s2: 1 / (2 * sigma * sigma), a11, a12, a22, b1, b2, yy };
   if (!(hi > lo)) return null;
   // Grid in steps of at most sigma/1.5 (chi^2(r0) varies on the scale of sigma), then parabolic steps.
   const steps = Math.max(6, Math.ceil((hi - lo) / (sigma / 1.5)));
   let best = Infinity, bestR = NaN;
   for (let s = 0; s <= steps; s++) {
     const r0 = lo + ((hi - lo) * s) / steps;
-    const f = solve(r0);
+    const f = solveWedgeAt(data, r0);
     if (f && f.amp > 0 && f.chi2 < best) { best = f.chi2; bestR = r0; }
   }
   if (!Number.isFinite(bestR)) return null;
@@ -247,21 +255,21 @@ function fitWedge(r: Float64Array, y: Float64Array, w: Float64Array, m: number, 
   // whose vertex is the answer and whose curvature gives the uncertainty.
   const gridStep = (hi - lo) / steps;
   let r0 = bestR;
-  const gm = solve(r0 - gridStep), gp = solve(r0 + gridStep);
+  const gm = solveWedgeAt(data, r0 - gridStep), gp = solveWedgeAt(data, r0 + gridStep);
   if (gm && gp) {
     const curv = gm.chi2 + gp.chi2 - 2 * best;
     if (curv > 0) r0 += Math.max(-gridStep, Math.min(gridStep, (0.5 * gridStep * (gm.chi2 - gp.chi2)) / curv));
   }
   const h = 0.2 * sigma;
-  const fm = solve(r0 - h), fp = solve(r0 + h);
-  let f0 = solve(r0);
+  const fm = solveWedgeAt(data, r0 - h), fp = solveWedgeAt(data, r0 + h);
+  let f0 = solveWedgeAt(data, r0);
   if (!fm || !f0 || !fp) return null;
   const curvature = (fm.chi2 + fp.chi2 - 2 * f0.chi2) / (h * h);
   if (!(curvature > 0)) return null;
   const vertex = Math.max(-h, Math.min(h, (0.5 * h * (fm.chi2 - fp.chi2)) / (curvature * h * h)));
   if (vertex !== 0) {
     r0 += vertex;
-    const fv = solve(r0);
+    const fv = solveWedgeAt(data, r0);
     if (!fv) return null;
     f0 = fv;
   }
@@ -321,4 +329,119 @@ function stackedWidth(r: number[], y: number[], start: number): number {
   );
   const s = Math.abs(fit.parameters[2]!);
   return Number.isFinite(s) && s > 0 ? s : NaN;
+}
+
+/** One ring's annulus and cells in a RingPointPlan. */
+export interface RingPointRingPlan {
+  /** Corrected radii bounding the annulus, px: rInPx <= R < rOutPx. */
+  rInPx: number;
+  rOutPx: number;
+  wedgeCount: number;
+  /** Radial bins of binPx per wedge. */
+  binCount: number;
+  /** Rows the annulus can touch, inclusive. */
+  rowFirst: number;
+  rowLast: number;
+}
+
+/** What the pixel sums of sampleRingPoints need (plain data, the same for every band of rows). */
+export interface RingPointPlan {
+  /** The trial frame (pattern-frame.ts frameTransform). */
+  cx: number;
+  cy: number;
+  cos: number;
+  sin: number;
+  sqrtQ: number;
+  angleRad: number;
+  /** R^2 = A dx^2 + 2 B dx dy + C dy^2. */
+  A: number;
+  B: number;
+  C: number;
+  binPx: number;
+  pixelStride: number;
+  rings: RingPointRingPlan[];
+}
+
+/** Per ring, per cell (wedge w, bin b at w x binCount + b): sum of values, pixel count, sum of corrected radii. */
+export interface RingPointSums {
+  S: Float64Array;
+  N: Float64Array;
+  SR: Float64Array;
+}
+
+/** accumulateRingPointRows in the form of a row-band pass. */
+export function accumulateRingPointRowsPass(images: RowBandImages, plan: RingPointPlan, band: RowBand): RingPointSums[] {
+  return accumulateRingPointRows(images.raster, images.mask, plan, band.rowStart, band.rowEnd);
+}
+
+/** Sums over disjoint bands of rows added up, cell by cell (the first part is reused as the total). */
+export function mergeRingPointSums(parts: readonly RingPointSums[][]): RingPointSums[] {
+  const out = parts[0]!;
+  for (let p = 1; p < parts.length; p++) {
+    parts[p]!.forEach((part, k) => {
+      const o = out[k]!;
+      for (let c = 0; c < o.S.length; c++) { o.S[c] += part.S[c]!; o.N[c] += part.N[c]!; o.SR[c] += part.SR[c]!; }
+    });
+  }
+  return out;
+}
+
+/**
+ * The cell sums of rows [rowStart, rowEnd) for every ring of `plan`: each unmasked
+ * pixel of a ring's annulus (on the staggered lattice of pixelStride) adds its value,
+ * 1 and its corrected radius to the cell of its wedge and radial bin. The annulus is
+ * visited row by row between the columns where the ellipse equation puts its edges.
+ */
+export function accumulateRingPointRows(raster: Raster, mask: PixelMask | null, plan: RingPointPlan, rowStart: number, rowEnd: number): RingPointSums[] {
+  const { width, data } = raster;
+  const ex = mask ? mask.excluded : null;
+  const { cx, cy, cos, sin, sqrtQ, angleRad, A, B, C, binPx } = plan;
+  const stride = plan.pixelStride;
+  const TWO_PI = 2 * Math.PI;
+  return plan.rings.map((ring) => {
+    const { rInPx: rIn, rOutPx: rOut, wedgeCount: nw, binCount: nb } = ring;
+    const S = new Float64Array(nw * nb), N = new Float64Array(nw * nb), SR = new Float64Array(nw * nb);
+    const wScale = nw / TWO_PI;
+    const j0 = Math.max(ring.rowFirst, rowStart), j1 = Math.min(ring.rowLast, rowEnd - 1);
+    // Pixels i0 <= i <= i1 (step stride) of row j.
+    const addRun = (j: number, i0: number, i1: number) => {
+      const dy = j - cy;
+      for (let i = i0; i <= i1; i += stride) {
+        const p = j * width + i;
+        if (ex !== null && ex[p]) continue;
+        const dx = i - cx;
+        const R = Math.sqrt(A * dx * dx + 2 * B * dx * dy + C * dy * dy);
+        if (R < rIn || R >= rOut) continue;
+        const u = dx * cos + dy * sin, v = -dx * sin + dy * cos;
+        let az = Math.atan2(v * sqrtQ, u / sqrtQ) + angleRad;
+        if (az >= Math.PI) az -= TWO_PI; else if (az < -Math.PI) az += TWO_PI;
+        const w = Math.min(nw - 1, Math.floor((az + Math.PI) * wScale));
+        const b = Math.min(nb - 1, Math.floor((R - rIn) / binPx));
+        const cell = w * nb + b;
+        S[cell] += data[p]!; N[cell]++; SR[cell] += R;
+      }
+    };
+    for (let j = j0; j <= j1; j++) {
+      if (stride > 1 && j % stride !== 0) continue;
+      const phase = stride > 1 ? (j / stride) % stride : 0;
+      const dy = j - cy;
+      // Columns where the ellipse of radius r crosses row j: cx + (-B dy -+ sqrt(disc)) / A.
+      const discOut = B * B * dy * dy - A * (C * dy * dy - rOut * rOut);
+      if (discOut < 0) continue;
+      const sOut = Math.sqrt(discOut);
+      // First column >= i on the row's lattice (i + ((phase - i) mod stride)).
+      let lo = Math.max(0, Math.floor(cx + (-B * dy - sOut) / A) - 1);
+      if (stride > 1) lo += (((phase - lo) % stride) + stride) % stride;
+      const hi = Math.min(width - 1, Math.ceil(cx + (-B * dy + sOut) / A) + 1);
+      const discIn = rIn > 0 ? B * B * dy * dy - A * (C * dy * dy - rIn * rIn) : -1;
+      if (discIn < 0) { addRun(j, lo, hi); continue; }
+      const sIn = Math.sqrt(discIn);
+      const innerLo = Math.ceil(cx + (-B * dy - sIn) / A) + 1, innerHi = Math.floor(cx + (-B * dy + sIn) / A) - 1;
+      addRun(j, lo, Math.min(hi, innerLo - 1));
+      let start = Math.max(lo, innerHi + 1, innerLo);
+      if (stride > 1) start += (((phase - start) % stride) + stride) % stride;
+      addRun(j, start, hi);
+    }
+    return { S, N, SR };
+  });
 }

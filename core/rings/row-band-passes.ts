@@ -5,7 +5,10 @@
  */
 import { accumulateRadialRowsPass } from './azimuthal-integration';
 import { accumulateTextureRowsPass } from './azimuthal-texture';
+import { centerBlockRowsPass } from './center-estimate';
 import { hotPixelCandidateRowsPass } from './mask-hot-pixels';
+import { ringCandidateRowsPass } from './ring-candidates';
+import { accumulateRingPointRowsPass } from './ring-points';
 
 export const ROW_BAND_PASSES = {
   /** Radial-profile sums (azimuthal-integration.ts): params { geometry, binning }. */
@@ -14,6 +17,12 @@ export const ROW_BAND_PASSES = {
   azimuthalTexture: accumulateTextureRowsPass,
   /** First-pass hot-pixel candidates (mask-hot-pixels.ts): params a HotPixelTest; the lists concatenate in band order. */
   hotPixelCandidates: hotPixelCandidateRowsPass,
+  /** Ring-point cell sums (ring-points.ts): params a RingPointPlan; the sums add up over bands. */
+  ringPointSums: accumulateRingPointRowsPass,
+  /** Block sums of the centre estimate's working image (center-estimate.ts): params a CenterBlockPlan; bands of whole block rows, concatenated. */
+  centerBlockSums: centerBlockRowsPass,
+  /** Quick-profile sums of the ring search (ring-candidates.ts): params a RingCandidatePlan; the sums add up over bands. */
+  ringCandidateSums: ringCandidateRowsPass,
 };
 
 export type RowBandPasses = typeof ROW_BAND_PASSES;

@@ -12,6 +12,7 @@ import { integrationFrame } from '../../../../core/rings/integration-geometry';
 import { maskHotPixels } from '../../../../core/rings/mask-hot-pixels';
 import { maskSaturated } from '../../../../core/rings/mask-saturated';
 import { measureRings } from '../../../../core/rings/measure-rings';
+import { refineFrame } from '../../../../core/rings/refine-frame';
 import { splitRows } from '../../../../core/rings/row-bands';
 import { simulatePattern } from '../../../../core/simulate';
 
@@ -56,6 +57,52 @@ describe('startRowBandPool', () => {
     here.stdErr.forEach((e, k) => {
       if (Number.isFinite(e)) expect(Math.abs(there.stdErr[k]! - e)).toBeLessThanOrEqual(1e-9 * e);
     });
+  });
+
+  // 1024 x 560 px: large enough for two bands of MIN_BAND_PIXELS (640 x 600 runs in one).
+  const wide = simulatePattern({
+    widthPx: 1024,
+    heightPx: 560,
+    voltageV: 200e3,
+    cameraLengthPx: 9000,
+    frame: { centerXPx: 500.6, centerYPx: 271.3, axisRatio: 1.012, angleDeg: 25 },
+    phases: [{ phase: findPhase('Au')! }],
+    peakCounts: 300,
+    ringFwhmPx: 3,
+    seed: 702,
+  });
+  /** The pool, counting the bands it was handed. */
+  const counted = { bands: 0, get bandCount() { return pool.bandCount; }, run: ((pass, images, params, bands) => { counted.bands += bands.length; return pool.run(pass, images, params, bands); }) as RowBandPool['run'] };
+
+  it('copies unshared images afresh for every run: two masks of one size in turn give their own profiles', () => {
+    const g = integrationFrame(1024, 560, wide.truth.frame);
+    const left = { width: 1024, height: 560, excluded: new Uint8Array(1024 * 560) };
+    const right = { width: 1024, height: 560, excluded: new Uint8Array(1024 * 560) };
+    for (let p = 0; p < left.excluded.length; p++) (p % 1024 < 512 ? left : right).excluded[p] = 1;
+    counted.bands = 0;
+    for (const m of [left, right, left]) {
+      const here = integrateRadialProfile(wide.raster, m, g, { rMinPx: 20 });
+      const there = integrateRadialProfile(wide.raster, m, g, { rMinPx: 20 }, counted);
+      expect(Array.from(there.area)).toEqual(Array.from(here.area));
+      expect(Array.from(there.mean)).toEqual(Array.from(here.mean));
+    }
+    expect(counted.bands).toBe(6);
+    expect(left.excluded.buffer instanceof SharedArrayBuffer).toBe(false);
+  });
+
+  it('gives refineFrame the frame of this thread (centre estimate, ring search and ring points on bands; to 1e-9 px)', () => {
+    const start = { centerXPx: 502, centerYPx: 270, axisRatio: 1, angleDeg: 0 };
+    counted.bands = 0;
+    const here = refineFrame(wide.raster, undefined, { start });
+    const there = refineFrame(pool.share(wide.raster), undefined, { start, rowBands: counted });
+    expect(counted.bands).toBeGreaterThanOrEqual(2 * 4); // a ring search and at least three rounds of ring points
+    expect(here.ok && there.ok).toBe(true);
+    if (!here.ok || !there.ok) return;
+    expect(Math.abs(there.frame.centerXPx - here.frame.centerXPx)).toBeLessThan(1e-9);
+    expect(Math.abs(there.frame.centerYPx - here.frame.centerYPx)).toBeLessThan(1e-9);
+    expect(Math.abs(there.frame.axisRatio - here.frame.axisRatio)).toBeLessThan(1e-12);
+    expect(there.rings.map((r) => r.keptCount)).toEqual(here.rings.map((r) => r.keptCount));
+    expect(Math.hypot(here.frame.centerXPx - wide.truth.frame.centerXPx, here.frame.centerYPx - wide.truth.frame.centerYPx)).toBeLessThan(0.05);
   });
 
   it('gives the texture and the hot-pixel mask of this thread', () => {

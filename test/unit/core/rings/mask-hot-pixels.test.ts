@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { maskHotPixels } from '../../../../core/rings/mask-hot-pixels';
+import { hotPixelCandidateRows, maskHotPixels } from '../../../../core/rings/mask-hot-pixels';
 import { estimatePixelNoise, noiseSigmaAt } from '../../../../core/rings/detector-noise-model';
 import { makeRingImage } from './ring-test-image';
 
@@ -55,3 +55,35 @@ describe('maskHotPixels', () => {
     expect(maskHotPixels(tiny)).toMatchObject({ hotCount: 0, reason: /too few unmasked pixels/ });
   });
 });
+
+describe('hotPixelCandidateRows screens', () => {
+  it('skip no pixel the rule itself would flag: against the rule applied to every pixel, k = 1.5 and 3 (seed 431)', () => {
+    const img = makeRingImage({ width: 300, height: 260, frame: { centerXPx: 140.3, centerYPx: 120.8, axisRatio: 1.01, angleDeg: 20 }, rings: [{ radiusPx: 60, sigmaPx: 0.8, peakCounts: 900 }, { radiusPx: 100, sigmaPx: 1.2, peakCounts: 400 }], hotPixels: { count: 20, valueCounts: 2000 }, seed: 431 });
+    const { width, height, data } = img.raster;
+    const skip = new Uint8Array(width * height);
+    for (let p = 0; p < skip.length; p += 37) skip[p] = 1;
+    for (const k of [1.5, 3]) {
+      const t = { k, readVariance: -2, varianceSlope: 1, floorVariance: 1 };
+      const rule = (i: number, j: number): boolean => {
+        const nb: number[] = [];
+        for (let dj = -1; dj <= 1; dj++) for (let di = -1; di <= 1; di++) {
+          const ii = i + di, jj = j + dj;
+          if ((di === 0 && dj === 0) || ii < 0 || jj < 0 || ii >= width || jj >= height || skip[jj * width + ii]) continue;
+          nb.push(data[jj * width + ii]!);
+        }
+        if (nb.length < 2) return false;
+        nb.sort((a, b) => a - b);
+        const n = nb.length;
+        const ref = n >= 3 ? nb[n - 2]! : nb[n - 1]!;
+        const mid = n % 2 ? nb[(n - 1) >> 1]! : 0.5 * (nb[n / 2 - 1]! + nb[n / 2]!);
+        return data[j * width + i]! - ref > k * Math.sqrt(Math.max(t.readVariance + t.varianceSlope * ref, t.floorVariance)) + Math.max(0, ref - mid);
+      };
+      const expected: number[] = [];
+      for (let j = 0; j < height; j++) for (let i = 0; i < width; i++) if (!skip[j * width + i] && rule(i, j)) expected.push(j * width + i);
+      const got = Array.from(hotPixelCandidateRows(img.raster, { width, height, excluded: skip }, t, 0, height));
+      expect(got).toEqual(expected);
+      expect(expected.length).toBeGreaterThan(k < 2 ? 200 : 20);
+    }
+  });
+});
+

@@ -4,6 +4,9 @@ import { hotPixelCandidateRows } from '../../../../core/rings/mask-hot-pixels';
 import { maskHotPixels } from '../../../../core/rings/mask-hot-pixels';
 import { ROW_BAND_PASSES } from '../../../../core/rings/row-band-passes';
 import { makeRingImage } from './ring-test-image';
+import { centerBlockRowsPass } from '../../../../core/rings/center-estimate';
+import { findRingCandidates } from '../../../../core/rings/ring-candidates';
+import { sampleRingPoints } from '../../../../core/rings/ring-points';
 
 describe('splitRows', () => {
   it('cuts [0, height) into consecutive bands as equal as whole rows allow', () => {
@@ -70,3 +73,67 @@ describe('runRowBands', () => {
     expect(out.length).toBe(1);
   });
 });
+
+describe('geometry passes on bands of rows', () => {
+  function recorder(bandCount: number): RowBandRunner & { seen: RowBand[][] } {
+    const seen: RowBand[][] = [];
+    return {
+      bandCount,
+      seen,
+      run(pass, images, params, bands) {
+        seen.push([...bands]);
+        const fn = ROW_BAND_PASSES[pass] as (i: typeof images, p: typeof params, b: RowBand) => ReturnType<(typeof ROW_BAND_PASSES)[typeof pass]>;
+        return bands.map((b) => fn(images, params, b));
+      },
+    };
+  }
+  const frame = { centerXPx: 500.3, centerYPx: 380.6, axisRatio: 1.015, angleDeg: 40 };
+  const rings = [{ radiusPx: 120, sigmaPx: 1.6, peakCounts: 300 }, { radiusPx: 260, sigmaPx: 2, peakCounts: 200 }];
+  const img = makeRingImage({ width: 1000, height: 800, frame, rings, background: { levelCounts: 40, centralCounts: 300, decayPx: 150 }, seed: 805 });
+
+  it('ring points: the banded cell sums give the points of one thread (integer data: to rounding of the radius sums; seed 805)', () => {
+    const windows = rings.map((r) => ({ radiusPx: r.radiusPx + 0.4, sigmaPx: r.sigmaPx, halfWindowPx: 4 * r.sigmaPx }));
+    for (const stride of [1, 2]) {
+      const runner = recorder(3);
+      const banded = sampleRingPoints(img.raster, undefined, frame, windows, { pixelStride: stride }, runner);
+      const single = sampleRingPoints(img.raster, undefined, frame, windows, { pixelStride: stride });
+      expect(runner.seen).toEqual([splitRows(800, 3)]);
+      banded.forEach((b, k) => {
+        const s = single[k]!;
+        expect(b.xPx.length).toBe(s.xPx.length);
+        expect(b.xPx.length).toBeGreaterThan(0.9 * b.wedgeCount);
+        for (let i = 0; i < b.xPx.length; i++) {
+          expect(Math.abs(b.xPx[i]! - s.xPx[i]!)).toBeLessThan(1e-9);
+          expect(Math.abs(b.sigmaPx[i]! - s.sigmaPx[i]!)).toBeLessThan(1e-9);
+        }
+      });
+    }
+  });
+
+  it('ring search: the banded profile sums give the same candidates (seed 805)', () => {
+    const runner = recorder(2);
+    const banded = findRingCandidates(img.raster, undefined, frame, { rowBands: runner, pixelStride: 3, minRadiusPx: 60 });
+    const single = findRingCandidates(img.raster, undefined, frame, { pixelStride: 3, minRadiusPx: 60 });
+    expect(runner.seen).toEqual([splitRows(800, 2)]);
+    expect(banded.rings).toEqual(single.rings);
+    for (const r of rings) expect(banded.rings.some((c) => Math.abs(c.radiusPx - r.radiusPx) < 1)).toBe(true);
+  });
+
+  it('centre estimate: block sums over bands of whole block rows concatenate to those of one band', () => {
+    const f = 7;
+    const whole = centerBlockRowsPass({ raster: img.raster, mask: null }, { blockPx: f }, { rowStart: 0, rowEnd: 800 });
+    const blockRows = Math.ceil(800 / f);
+    const cw = Math.ceil(1000 / f);
+    expect(whole.sum.length).toBe(cw * blockRows);
+    const sums: number[] = [], weights: number[] = [];
+    for (const b of splitRows(blockRows, 3)) {
+      const part = centerBlockRowsPass({ raster: img.raster, mask: null }, { blockPx: f }, { rowStart: b.rowStart * f, rowEnd: Math.min(800, b.rowEnd * f) });
+      sums.push(...part.sum);
+      weights.push(...part.weight);
+    }
+    expect(sums).toEqual(Array.from(whole.sum));
+    expect(weights).toEqual(Array.from(whole.weight));
+    expect(whole.weight[0]).toBe(f * f);
+  });
+});
+
