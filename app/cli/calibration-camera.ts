@@ -4,88 +4,37 @@
  * calibration into the camera of a later analysis (`analyze --calibration`, `check`).
  */
 import {
-  calibrateCamera,
   cameraUncertaintyBudget,
   cameraWithBudget,
   DEFAULT_CAMERA_REPRODUCIBILITY_RELATIVE,
+  missingStrongestStandardRings,
   standardReferenceUncertainty,
-  type CalibrationOutcome,
   type CameraCalibration,
   type CameraUncertaintyBudget,
   type ReproducibilitySource,
 } from '../../core/calibration';
-import { predictRings, type Phase } from '../../core/crystal';
-import { electronWavelengthA, ringRadiusPx } from '../../core/physics';
-import { reindexAnalysis, type AnalysisCamera, type AnalysisResult } from '../../core/pipeline';
+import type { Phase } from '../../core/crystal';
+import type { AnalysisCamera, AnalysisResult } from '../../core/pipeline';
 import type { CalibrationRecord, LabStore } from '../node/store';
 import { LabStoreError } from '../node/store';
 import { parseRelative } from '../common/quantity';
 import { InputError, UsageError } from './exit-codes';
 import { kilovolts } from './number-format';
 
-/**
- * Smallest d the standard's predicted rings go down to on the first pass (Å). core's
- * calibrateCamera predicts the standard's rings down to 0.9 x the smallest measured d,
- * so on a camera of unknown length the analyses are first given one that puts the
- * outermost ring at this d: every measured ring is then inside the predicted list.
- */
-const FIRST_PASS_D_MIN_A = 0.3;
-
-/** The same analyses seen through a camera of length `cameraLengthPx` (d recomputed; nothing indexed). */
-function throughCamera(analyses: readonly AnalysisResult[], cameraLengthPx: number, source: string): AnalysisResult[] {
-  return analyses.map((a) =>
-    a.rings.length === 0 ? a : reindexAnalysis(a, { voltageV: a.voltageV, cameraLengthPx, cameraLengthSigmaPx: 0, source, calibrated: false }, [], { ringIndices: [] }),
-  );
-}
+/** The two-pass fit on a standard's rings, core's (core/calibration/fit-camera-on-standard.ts), for `analyze --internal-standard`. */
+export { fitCameraOnStandard } from '../../core/calibration';
 
 /**
- * Fits the camera on the standard's rings of `analyses`, in two passes: the first with the
- * outermost ring put at d = 0.3 Å (so the standard's predicted rings cover every measured
- * ring whatever camera the analyses were made with), the second with the analyses seen
- * through the first pass's camera (so the predicted list ends just beyond the outermost
- * ring, as calibrateCamera intends). Both passes use the nominal camera length when one is
- * given (assignment window and the > 5 % warning).
- * @param analyses analyses of the standard at one voltage (any camera: only radii are used)
- */
-export function fitCameraOnStandard(analyses: readonly AnalysisResult[], standard: Phase, nominalCameraLengthPx: number | null): CalibrationOutcome {
-  const options = nominalCameraLengthPx ? { nominalCameraLengthPx } : {};
-  const outermost = Math.max(0, ...analyses.flatMap((a) => a.rings.map((r) => r.radiusPx)));
-  if (!(outermost > 0)) return calibrateCamera(analyses, standard, options);
-  const lambda = electronWavelengthA(analyses[0]!.voltageV);
-  // R = (L/p) tan(2 asin(lambda / 2d)): the L/p that puts the outermost ring at d = FIRST_PASS_D_MIN_A.
-  const wide = outermost / Math.tan(2 * Math.asin(lambda / (2 * FIRST_PASS_D_MIN_A)));
-  const first = calibrateCamera(throughCamera(analyses, wide, 'first pass'), standard, options);
-  if (!first.ok) return first;
-  return calibrateCamera(throughCamera(analyses, first.calibration.cameraLengthPx, 'second pass'), standard, options);
-}
-
-/**
- * The standard's strongest ring (highest relativeIntensity) must be among the matched rings
- * of every image whose measured range holds it (from the profile's inner edge to the
- * outermost ring): a film that lacks it is not the standard, or the fit matched another
- * phase's rings under a wrong camera (cubic ring sequences alias one another at cameras a
- * factor sqrt 2 a1 / a2 apart).
+ * The standard's strongest ring must be among the matched rings of every image whose
+ * measured range holds it (core/calibration/strongest-standard-ring-check.ts), in the
+ * commands' words.
  * @returns one sentence per image that lacks it
  */
 export function missingStrongestStandardRing(fit: CameraCalibration, analyses: readonly AnalysisResult[], standard: Phase): string[] {
-  const camera = { wavelengthA: fit.wavelengthA, cameraLengthPx: fit.cameraLengthPx };
-  const problems: string[] = [];
-  analyses.forEach((a, image) => {
-    if (a.rings.length === 0) return;
-    const outermost = Math.max(...a.rings.map((r) => r.radiusPx));
-    const rings = predictRings(standard, { dMinA: Math.max(0.3, 0.9 * fit.wavelengthA / (2 * Math.sin(Math.atan2(outermost, fit.cameraLengthPx) / 2))) });
-    if (rings.length === 0) return;
-    const strongest = rings.reduce((best, r) => (r.relativeIntensity > best.relativeIntensity ? r : best));
-    const radiusPx = ringRadiusPx(strongest.dA, camera);
-    if (radiusPx < a.profile.rMinPx || radiusPx > outermost * 1.002) return;
-    const matched = fit.residuals.some((r) => r.imageIndex === image && !r.rejected && Math.abs(r.dRefA / strongest.dA - 1) < 1e-9);
-    if (!matched) {
-      problems.push(
-        `image ${image + 1}: ${standard.id}'s strongest ring (${strongest.families.map((f) => f.hkl.join(' ')).join(' + ')}, d = ${strongest.dA.toFixed(4)} Å) would lie at R = ${radiusPx.toFixed(1)} px under the fitted camera (L/p = ${fit.cameraLengthPx.toFixed(1)} px), inside the measured range, but no ring was measured there`,
-      );
-    }
-  });
-  return problems;
+  return missingStrongestStandardRings(fit, analyses, standard).map(
+    ({ imageIndex, ring, radiusPx }) =>
+      `image ${imageIndex + 1}: ${standard.id}'s strongest ring (${ring.families.map((f) => f.hkl.join(' ')).join(' + ')}, d = ${ring.dA.toFixed(4)} Å) would lie at R = ${radiusPx.toFixed(1)} px under the fitted camera (L/p = ${fit.cameraLengthPx.toFixed(1)} px), inside the measured range, but no ring was measured there`,
+  );
 }
 
 /**

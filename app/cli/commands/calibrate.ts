@@ -2,7 +2,9 @@ import type { Command } from 'commander';
 import {
   cameraUncertaintyBudget,
   DEFAULT_CAMERA_REPRODUCIBILITY_RELATIVE,
+  fitCameraOnStandard,
   standardReferenceUncertainty,
+  strongestRingsNotOfStandard,
   type CameraCalibration,
   type CameraUncertaintyBudget,
   type RingResidual,
@@ -12,7 +14,7 @@ import { dSpacingFromRadiusA } from '../../../core/physics';
 import type { AnalysisCamera, AnalysisResult } from '../../../core/pipeline';
 import { LabStoreError, type AddedCalibration, type LabStore, type NewCalibration } from '../../node/store';
 import { addCameraOptions, readCameraFlags, type CameraFlags, type CameraSettings } from '../camera-options';
-import { budgetLine, fitCameraOnStandard, missingStrongestStandardRing } from '../calibration-camera';
+import { budgetLine, missingStrongestStandardRing } from '../calibration-camera';
 import { printJson, type CliIo } from '../cli-io';
 import { InputError, NothingFoundError, UsageError } from '../exit-codes';
 import {
@@ -114,26 +116,18 @@ export function calibrationRecordOf(
 }
 
 /**
- * A standard film's strongest ring must be one of the standard's: when it is not, the fit
- * matched a subset of the rings under a wrong camera (a bcc standard fits an fcc film's
- * 200, 220, 222 and 400 rings at a camera sqrt 2 a_bcc / a_fcc away, for instance) or the
- * film is not the standard.
- * @throws NothingFoundError naming the ring
+ * A standard film's strongest ring must be one of the standard's
+ * (core/calibration/strongest-measured-ring-check.ts): when it is not, the fit matched a
+ * subset of the rings under a wrong camera or the film is not the standard.
+ * @throws NothingFoundError naming the first image's ring
  */
 function refuseUnexplainedStrongest(fit: CameraCalibration, results: readonly AnalysisResult[], inputs: readonly ImageInput[], standard: Phase): void {
-  results.forEach((result, image) => {
-    if (result.rings.length === 0) return;
-    let strongest = 0;
-    result.rings.forEach((r, i) => {
-      if (r.snr > result.rings[strongest]!.snr) strongest = i;
-    });
-    if (fit.standardRings[image]?.includes(strongest)) return;
-    const ring = result.rings[strongest]!;
-    const d = dSpacingFromRadiusA(ring.radiusPx, { wavelengthA: fit.wavelengthA, cameraLengthPx: fit.cameraLengthPx });
-    throw new NothingFoundError(
-      `the strongest ring of ${inputs[image]!.argument} (R = ${ring.radiusPx.toFixed(2)} px, SNR ${ring.snr.toFixed(0)}, d = ${d.toFixed(4)} Å under the fit) is not a ring of ${standard.id} under the fitted camera (L/p = ${fit.cameraLengthPx.toFixed(1)} px): the film is probably not ${standard.id}, or the fit matched the wrong rings; check --standard and the nominal camera; nothing was saved`,
-    );
-  });
+  const unexplained = strongestRingsNotOfStandard(fit, results)[0];
+  if (!unexplained) return;
+  const { imageIndex, radiusPx, snr, dA } = unexplained;
+  throw new NothingFoundError(
+    `the strongest ring of ${inputs[imageIndex]!.argument} (R = ${radiusPx.toFixed(2)} px, SNR ${snr.toFixed(0)}, d = ${dA.toFixed(4)} Å under the fit) is not a ring of ${standard.id} under the fitted camera (L/p = ${fit.cameraLengthPx.toFixed(1)} px): the film is probably not ${standard.id}, or the fit matched the wrong rings; check --standard and the nominal camera; nothing was saved`,
+  );
 }
 
 /** Saves the record; a name taken meanwhile is a usage error, other store problems input errors. */

@@ -1,70 +1,44 @@
 /**
- * The camera calibration of the workspace, pure and run in the analysis worker: the same
- * two-pass fit on a standard's rings and the same refusals as `annula calibrate`
- * (app/cli/calibration-camera.ts and app/cli/commands/calibrate.ts, whose module cannot be
- * bundled for the browser because it reaches the Node store), and the record the store
- * keeps. The camera uncertainty budget is core/calibration's, as in the CLI.
+ * The camera calibration of the workspace: the workspace's words for core's refusals of an
+ * untrusted fit (the two-pass fit itself is core/calibration/fit-camera-on-standard.ts, run
+ * in the analysis worker, as in `annula calibrate`), the camera and budget of a saved
+ * calibration, and the record the store keeps. The camera uncertainty budget is
+ * core/calibration's, as in the CLI.
  */
 import {
-  calibrateCamera,
   cameraUncertaintyBudget,
   cameraWithBudget,
   DEFAULT_CAMERA_REPRODUCIBILITY_RELATIVE,
+  missingStrongestStandardRings,
   standardReferenceUncertainty,
-  type CalibrationOutcome,
+  strongestRingsNotOfStandard,
   type CameraCalibration,
   type CameraUncertaintyBudget,
 } from '../../../core/calibration';
-import { predictRings, type Phase } from '../../../core/crystal';
-import { dSpacingFromRadiusA, electronWavelengthA, ringRadiusPx } from '../../../core/physics';
-import { reindexAnalysis, type AnalysisCamera, type AnalysisResult } from '../../../core/pipeline';
+import type { Phase } from '../../../core/crystal';
+import { dSpacingFromRadiusA } from '../../../core/physics';
+import type { AnalysisCamera, AnalysisResult } from '../../../core/pipeline';
 import type { CalibrationSummary } from '../../handlers/contract';
 
 /** The outlier rule of core/calibration/camera-length-fit.ts, for people (as the CLI states it). */
 export const OUTLIER_RULE = 'a ring is left out when its standardised residual departs from the median by more than max(4, 4 × 1.4826 × MAD); the worst goes first and the fit is repeated, while at least 3 rings remain';
 
-const FIRST_PASS_D_MIN_A = 0.3;
-
-function throughCamera(analyses: readonly AnalysisResult[], cameraLengthPx: number, source: string): AnalysisResult[] {
-  return analyses.map((a) => (a.rings.length === 0 ? a : reindexAnalysis(a, { voltageV: a.voltageV, cameraLengthPx, cameraLengthSigmaPx: 0, source, calibrated: false }, [], { ringIndices: [] })));
-}
-
-/** The two-pass fit of `annula calibrate` (first pass with the outermost ring at d = 0.3 Å, then through the first pass's camera). */
-export function fitCameraOnStandard(analyses: readonly AnalysisResult[], standard: Phase, nominalCameraLengthPx: number | null): CalibrationOutcome {
-  const options = nominalCameraLengthPx ? { nominalCameraLengthPx } : {};
-  const outermost = Math.max(0, ...analyses.flatMap((a) => a.rings.map((r) => r.radiusPx)));
-  if (!(outermost > 0)) return calibrateCamera(analyses, standard, options);
-  const lambda = electronWavelengthA(analyses[0]!.voltageV);
-  const wide = outermost / Math.tan(2 * Math.asin(lambda / (2 * FIRST_PASS_D_MIN_A)));
-  const first = calibrateCamera(throughCamera(analyses, wide, 'first pass'), standard, options);
-  if (!first.ok) return first;
-  return calibrateCamera(throughCamera(analyses, first.calibration.cameraLengthPx, 'second pass'), standard, options);
-}
-
-/** Why a fit is not trusted (the CLI's refusals): the strongest measured ring is not the standard's, or the standard's strongest ring is missing. Empty when trusted. */
+/**
+ * Why a fit is not trusted, in the workspace's words: the strongest measured ring is not the
+ * standard's (core/calibration/strongest-measured-ring-check.ts), or the standard's strongest
+ * ring is missing (strongest-standard-ring-check.ts); image by image, in that order. Empty when trusted.
+ */
 export function untrustedFit(fit: CameraCalibration, analyses: readonly AnalysisResult[], standard: Phase): string[] {
-  const camera = { wavelengthA: fit.wavelengthA, cameraLengthPx: fit.cameraLengthPx };
-  const problems: string[] = [];
-  analyses.forEach((a, image) => {
-    if (a.rings.length === 0) return;
-    let strongest = 0;
-    a.rings.forEach((r, i) => {
-      if (r.snr > a.rings[strongest]!.snr) strongest = i;
-    });
-    if (!fit.standardRings[image]?.includes(strongest)) {
-      const ring = a.rings[strongest]!;
-      problems.push(`the strongest ring (R = ${ring.radiusPx.toFixed(2)} px, d = ${dSpacingFromRadiusA(ring.radiusPx, camera).toFixed(4)} Å under the fit) is not a ring of ${standard.id}: the film is probably not ${standard.id}, or the fit matched the wrong rings`);
-    }
-    const outermost = Math.max(...a.rings.map((r) => r.radiusPx));
-    const rings = predictRings(standard, { dMinA: Math.max(0.3, (0.9 * fit.wavelengthA) / (2 * Math.sin(Math.atan2(outermost, fit.cameraLengthPx) / 2))) });
-    if (rings.length === 0) return;
-    const top = rings.reduce((best, r) => (r.relativeIntensity > best.relativeIntensity ? r : best));
-    const radiusPx = ringRadiusPx(top.dA, camera);
-    if (radiusPx < a.profile.rMinPx || radiusPx > outermost * 1.002) return;
-    const matched = fit.residuals.some((r) => r.imageIndex === image && !r.rejected && Math.abs(r.dRefA / top.dA - 1) < 1e-9);
-    if (!matched) problems.push(`${standard.id}'s strongest ring (d = ${top.dA.toFixed(4)} Å) would lie at R = ${radiusPx.toFixed(1)} px, inside the measured range, but no ring was measured there`);
-  });
-  return problems;
+  const notOfStandard = strongestRingsNotOfStandard(fit, analyses);
+  const missing = missingStrongestStandardRings(fit, analyses, standard);
+  return analyses.flatMap((_, image) => [
+    ...notOfStandard
+      .filter((f) => f.imageIndex === image)
+      .map((f) => `the strongest ring (R = ${f.radiusPx.toFixed(2)} px, d = ${f.dA.toFixed(4)} Å under the fit) is not a ring of ${standard.id}: the film is probably not ${standard.id}, or the fit matched the wrong rings`),
+    ...missing
+      .filter((f) => f.imageIndex === image)
+      .map((f) => `${standard.id}'s strongest ring (d = ${f.ring.dA.toFixed(4)} Å) would lie at R = ${f.radiusPx.toFixed(1)} px, inside the measured range, but no ring was measured there`),
+  ]);
 }
 
 /** The budget a calibration carries when applied to a later image: fit, the standard's reference a, the default reproducibility (as `annula check` without --camera-reproducibility). */

@@ -5,7 +5,7 @@
 import { cameraLengthPxFromPhysical, electronWavelengthA } from '../../../core/physics';
 import type { AnalysisCamera } from '../../../core/pipeline';
 import { parseQuantity, QuantityError } from '../../common/quantity';
-import type { CalibrationSummary, CameraText } from '../../handlers/contract';
+import type { CameraText } from '../../handlers/contract';
 
 export type FieldResult<T> = { ok: true; value: T } | { ok: false; message: string };
 
@@ -44,12 +44,4 @@ export function nominalCamera(text: CameraText): FieldResult<AnalysisCamera> {
       calibrated: false,
     },
   };
-}
-
-/** A saved calibration as the camera; its voltage must be the pattern's. */
-export function calibratedCamera(c: CalibrationSummary, voltageV: number): FieldResult<AnalysisCamera> {
-  if (Math.abs(c.voltageV / voltageV - 1) > 1e-6) {
-    return { ok: false, message: `calibration "${c.name}" was made at ${(c.voltageV / 1e3).toFixed(0)} kV, this pattern at ${(voltageV / 1e3).toFixed(0)} kV; a calibration holds only at its own voltage` };
-  }
-  return { ok: true, value: { voltageV, cameraLengthPx: c.cameraLengthPx, cameraLengthSigmaPx: c.cameraLengthSigmaPx, source: `calibration "${c.name}"`, calibrated: true } };
 }
