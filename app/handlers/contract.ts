@@ -7,6 +7,8 @@
  * (`BytesResult`): HTTP sends the bytes as the body and the metadata in a header, IPC
  * passes both through the structured clone unchanged.
  */
+import type { CalibrationDrift } from '../node/store/calibration-drift';
+import type { CalibrationRecord } from '../node/store/store-records';
 
 /** Why a handler refused or failed; transports map these to HTTP statuses. */
 export type HandlerErrorCode =
@@ -64,19 +66,10 @@ export interface SampleImageMeta extends ImageFileMeta {
 }
 
 /** A calibration as the workspace lists it (a subset of the store's record). */
-export interface CalibrationSummary {
-  name: string;
-  instrument: string | null;
-  voltageV: number;
-  nominalCameraLengthM: number | null;
-  pixelSizeM: number | null;
-  created: string;
-  standardPhaseId: string;
-  cameraLengthPx: number;
-  cameraLengthSigmaPx: number;
-  axisRatio: number;
-  angleDeg: number;
-}
+export type CalibrationSummary = Pick<
+  CalibrationRecord,
+  'name' | 'instrument' | 'voltageV' | 'nominalCameraLengthM' | 'pixelSizeM' | 'created' | 'standardPhaseId' | 'cameraLengthPx' | 'cameraLengthSigmaPx' | 'axisRatio' | 'angleDeg'
+>;
 
 export interface CalibrationList {
   /** Where the store is (absolute path) and whether a file is there yet. */
@@ -86,15 +79,7 @@ export interface CalibrationList {
 }
 
 /** The drift check of a calibration against the previous one at the same setting (app/node/store calibrationDrift). */
-export interface CalibrationDriftData {
-  previousName: string;
-  previousCreated: string;
-  relativeChange: number;
-  relativeChangeSigma: number;
-  threshold: number;
-  flagged: boolean;
-  message: string;
-}
+export type CalibrationDriftData = CalibrationDrift;
 
 /** What save-calibration did: the saved calibration and its drift check (null without a previous one). */
 export interface SavedCalibration {
