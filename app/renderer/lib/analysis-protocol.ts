@@ -7,14 +7,19 @@ import type { CalibrationOutcome, CameraUncertaintyBudget } from '../../../core/
 import type { AnalysisCamera, AnalysisResult, AnalysisStage } from '../../../core/pipeline';
 import type { FilmCheck } from '../../../core/qa';
 import type { ReportCalibration } from '../../common/report';
+import type { PatternEdits } from './pattern-edits';
 
 export type ToWorker =
   /** Decode the file and analyse it from scratch. */
   | { kind: 'analyze'; jobId: number; name: string; bytes: ArrayBuffer; camera: AnalysisCamera }
-  /** Same rings, another camera (voltage, camera length, pixel size or a calibration). */
-  | { kind: 'recamera'; jobId: number; camera: AnalysisCamera }
-  /** Re-measure the profile and rings with the centre here (the user dragged it). */
-  | { kind: 'move-centre'; jobId: number; centerXPx: number; centerYPx: number }
+  /**
+   * Rebuild the analysis of the held image from the user's edits (centre, excluded regions,
+   * dropped and added rings) and this camera. `newRingPx`: the ring just asked for, whose
+   * failed fit is an error (a ring asked for earlier that no longer fits becomes a warning).
+   */
+  | { kind: 'apply-edits'; jobId: number; edits: PatternEdits; camera: AnalysisCamera; newRingPx: number | null }
+  /** The coarse profile with the centre here, while the user drags it (the exact one follows on release). */
+  | { kind: 'preview-centre'; jobId: number; centerXPx: number; centerYPx: number }
   /** Fit the camera on the held pattern's rings of a standard phase (`annula calibrate`'s fit). */
   | { kind: 'calibrate'; jobId: number; standardId: string; nominalCameraLengthPx: number | null }
   /** Apply a calibrated camera (with its budget) to the held pattern and check it against a phase (core/qa checkFilm). */
@@ -35,6 +40,11 @@ export interface ReportRequest {
   date: string;
 }
 
+export interface ProfileCurves {
+  fitted: number[];
+  residual: number[];
+}
+
 export interface DecodedImageSummary {
   name: string;
   width: number;
@@ -50,7 +60,10 @@ export type FromWorker =
   | { kind: 'progress'; jobId: number; stage: AnalysisStage | 'decoding' | 'loading'; fraction: number }
   /** The decoded pixels (a copy; the worker keeps its own for re-runs). */
   | { kind: 'image'; jobId: number; image: DecodedImageSummary; data: Float32Array }
-  | { kind: 'result'; jobId: number; result: AnalysisResult; elapsedMs: number }
+  /** `curves`: the fitted peaks over the background and the residual per profile bin (null when not computed); `addedRings`: indices of the rings fitted where the user asked. */
+  | { kind: 'result'; jobId: number; result: AnalysisResult; elapsedMs: number; curves: ProfileCurves | null; addedRings: number[] }
+  /** The coarse profile for a centre being dragged. */
+  | { kind: 'preview'; jobId: number; centerXPx: number; centerYPx: number; radiusPx: number[]; mean: number[]; elapsedMs: number }
   /** The combined mask (1 = excluded), sent after the first result of an image. */
   | { kind: 'mask'; jobId: number; width: number; height: number; excluded: Uint8Array }
   | { kind: 'error'; jobId: number; message: string; reason: 'image' | 'settings' | 'no-image' | 'internal' }

@@ -10,7 +10,9 @@ import { parseQuantity, parseRelative, QuantityError } from '../../common/quanti
 import type { ReportCalibration } from '../../common/report';
 import type { CalibrationHistory, CalibrationList, CalibrationSummary, CameraText, PhaseHistory, SampleSummary, SavedCalibration } from '../../handlers/contract';
 import { AnalysisClient } from './analysis-client';
-import type { DecodedImageSummary, FromWorker, ReportRequest } from './analysis-protocol';
+import type { DecodedImageSummary, FromWorker, ProfileCurves, ReportRequest } from './analysis-protocol';
+import { EditHistory, insidePolygon, NO_EDITS, type EditState, type PatternEdits } from './pattern-edits';
+import type { MaskPolygon } from '../../../core/rings';
 import { BackendError, type Backend } from './backend';
 import { nominalCamera } from './camera-form';
 import { calibrationCamera, calibrationRecord } from './calibration-fit';
@@ -32,6 +34,9 @@ export interface Overlays {
 
 /** The right column's views, by the user's job. */
 export type SideView = 'answer' | 'calibrate' | 'check';
+
+/** What a click or drag on the image does: move (pan, and drag the centre cross), outline a region to exclude, erase a drawn region, ask for a ring at the clicked radius. */
+export type EditTool = 'move' | 'exclude' | 'erase' | 'add-ring';
 
 export interface CalibrationDraft {
   outcome: CalibrationOutcome;
@@ -97,8 +102,25 @@ export class Workspace {
   predictedPhaseId = $state<string | null>(null);
   hoveredRing = $state<number | null>(null);
   lastRunMs = $state<number | null>(null);
-  /** Centre-drag refreshes: count and total worker time, for the rate shown while dragging. */
-  dragStats = $state.raw<{ updates: number; workerMs: number; startedAt: number } | null>(null);
+  /** Centre-drag refreshes: coarse profiles shown, pointer moves, total worker time, for the rate shown while dragging. */
+  dragStats = $state.raw<{ updates: number; moves: number; workerMs: number; startedAt: number; lastAt: number } | null>(null);
+  /** The coarse profile and the centre while the centre is dragged; null otherwise. */
+  preview = $state.raw<{ centerXPx: number; centerYPx: number; radiusPx: number[]; mean: number[] } | null>(null);
+  /** Times the profile shown has changed (results and drag previews): a test hook. */
+  profileUpdates = $state(0);
+  /** Fitted peaks over the background and the residual, per profile bin, for the shown result. */
+  curves = $state.raw<ProfileCurves | null>(null);
+  /** Indices of the rings fitted where the user asked. */
+  addedRings = $state.raw<number[]>([]);
+  tool = $state<EditTool>('move');
+  /** The outline being drawn with the exclude tool, image pixels. */
+  draftPolygon = $state.raw<Array<[number, number]>>([]);
+  #history: EditHistory<EditState> | null = null;
+  /** Bumped on every history change, so canUndo and the labels are reactive. */
+  historyTick = $state(0);
+  #editInFlight = false;
+  /** The step in flight was a new one (undone if the worker refuses it), not an undo or redo. */
+  #lastStepPushed = false;
 
   sideView = $state<SideView>('answer');
   // Calibration flow
@@ -124,6 +146,7 @@ export class Workspace {
   readonly #client: AnalysisClient;
   #pendingCentre: { x: number; y: number } | null = null;
   #centreInFlight = false;
+  #dragging = false;
 
   constructor(backend: Backend) {
     this.#backend = backend;
@@ -283,9 +306,8 @@ export class Workspace {
   /** Apply the camera fields (or the chosen calibration) to the open pattern. */
   applyCamera(): void {
     const camera = this.#camera();
-    if (!camera || !this.result) return;
-    this.#client.send({ kind: 'recamera', camera });
-    this.busy = { what: 'Applying the camera', stage: 'computing d-spacings', fraction: 0.5 };
+    if (!camera || !this.result || !this.#history) return;
+    this.#commit({ ...this.#history.present, camera: { ...this.cameraText }, calibrationName: this.calibrationName, label: 'camera change' });
   }
 
   useCalibration(name: string | null): void {
@@ -299,21 +321,110 @@ export class Workspace {
     this.busy = null;
     this.#centreInFlight = false;
     this.#pendingCentre = null;
+    this.#history = null;
+    this.#editInFlight = false;
+    this.#dragging = false;
+    this.preview = null;
+    this.historyTick++;
     this.notice = 'Analysis cancelled. Open an image or a sample to start again.';
     this.result = null;
     this.mask = null;
   }
 
-  /** The user dragged the centre: re-measure there (one request in flight, the latest position wins). */
+  // ---- Direct manipulation and its history ------------------------------------------
+
+  get edits(): PatternEdits {
+    void this.historyTick;
+    return this.#history?.present.edits ?? NO_EDITS;
+  }
+
+  get canUndo(): boolean {
+    void this.historyTick;
+    return !!this.#history?.canUndo;
+  }
+
+  get canRedo(): boolean {
+    void this.historyTick;
+    return !!this.#history?.canRedo;
+  }
+
+  /** What undo would take back, or what redo would do again. */
+  get undoLabel(): string | null {
+    void this.historyTick;
+    return this.#history?.canUndo ? this.#history.present.label : null;
+  }
+
+  get redoLabel(): string | null {
+    void this.historyTick;
+    return this.#history?.next?.label ?? null;
+  }
+
+  #commit(state: EditState, newRingPx: number | null = null): void {
+    if (!this.#history) return;
+    this.#history.push(state);
+    this.#lastStepPushed = true;
+    this.historyTick++;
+    this.#sendEdits(newRingPx);
+  }
+
+  #sendEdits(newRingPx: number | null = null): void {
+    const s = this.#history!.present;
+    this.cameraText = { ...s.camera };
+    this.calibrationName = s.calibrationName;
+    const camera = this.#camera();
+    if (!camera) return;
+    this.#pendingCentre = null;
+    this.#centreInFlight = false;
+    this.#editInFlight = true;
+    this.#client.send({ kind: 'apply-edits', edits: $state.snapshot(s.edits) as PatternEdits, camera, newRingPx });
+    this.busy = { what: `Re-measuring after the ${s.label}`, stage: 'measuring the rings', fraction: 0.5 };
+  }
+
+  #edit(label: string, change: (e: PatternEdits) => PatternEdits, newRingPx: number | null = null): void {
+    if (!this.#history || !this.result) return;
+    const present = this.#history.present;
+    this.#commit({ ...present, edits: change(present.edits), label }, newRingPx);
+  }
+
+  undo(): void {
+    if (this.#history?.undo()) {
+      this.#lastStepPushed = false;
+      this.historyTick++;
+      this.#sendEdits();
+    }
+  }
+
+  redo(): void {
+    if (this.#history?.redo()) {
+      this.#lastStepPushed = false;
+      this.historyTick++;
+      this.#sendEdits();
+    }
+  }
+
+  /** The user drags the centre: a coarse profile there (one request in flight, the latest position wins, older ones are never sent). */
   moveCentre(x: number, y: number): void {
     if (!this.result) return;
+    const t = performance.now();
+    if (!this.#dragging) {
+      this.#dragging = true;
+      this.dragStats = { updates: 0, moves: 0, workerMs: 0, startedAt: t, lastAt: t };
+    }
+    this.dragStats = { ...this.dragStats!, moves: this.dragStats!.moves + 1 };
     this.#pendingCentre = { x, y };
-    this.dragStats ??= { updates: 0, workerMs: 0, startedAt: performance.now() };
     this.#sendCentre();
   }
 
-  endCentreDrag(): void {
-    // The rate stays visible until the next drag.
+  /** Release: the exact analysis with the centre here, as one step of the history. */
+  endCentreDrag(x: number, y: number): void {
+    if (!this.#dragging) return;
+    this.#dragging = false;
+    this.#edit('centre move', (e) => ({ ...e, centre: { xPx: x, yPx: y } }));
+  }
+
+  /** Back to the automatic centre. */
+  resetCentre(): void {
+    if (this.edits.centre) this.#edit('centre reset', (e) => ({ ...e, centre: null }));
   }
 
   #sendCentre(): void {
@@ -321,7 +432,44 @@ export class Workspace {
     const { x, y } = this.#pendingCentre;
     this.#pendingCentre = null;
     this.#centreInFlight = true;
-    this.#client.send({ kind: 'move-centre', centerXPx: x, centerYPx: y });
+    this.#client.send({ kind: 'preview-centre', centerXPx: x, centerYPx: y });
+  }
+
+  addMaskPolygon(points: Array<[number, number]>): void {
+    this.draftPolygon = [];
+    if (points.length < 3) {
+      this.notice = 'a region needs at least 3 corners; click the corners, then double-click or press Enter to close it';
+      return;
+    }
+    this.overlays.mask = true;
+    this.#edit('excluded region', (e) => ({ ...e, polygons: [...e.polygons, { points: points.map(([x, y]) => [x, y] as [number, number]) }] }));
+  }
+
+  /** Erases the drawn region under (x, y), the last drawn first; says so when there is none. */
+  eraseMaskAt(x: number, y: number): void {
+    const polygons = this.edits.polygons;
+    let k = -1;
+    for (let i = polygons.length - 1; i >= 0; i--) if (insidePolygon(polygons[i]!, x, y)) { k = i; break; }
+    if (k < 0) {
+      this.notice = polygons.length ? 'there is no drawn region here; click inside one of the outlined regions to erase it' : 'there are no drawn regions to erase (the automatic masks of saturated, hot and beam-stop pixels stay)';
+      return;
+    }
+    this.#edit('region erased', (e) => ({ ...e, polygons: e.polygons.filter((_: MaskPolygon, i: number) => i !== k) }));
+  }
+
+  dropRing(index: number): void {
+    const ring = this.result?.rings[index];
+    if (!ring) return;
+    const r = ring.radiusPx;
+    this.hoveredRing = null;
+    this.#edit(`ring ${index + 1} dropped`, (e) => ({ ...e, droppedRadiiPx: [...e.droppedRadiiPx, r], addedRadiiPx: e.addedRadiiPx.filter((a) => Math.abs(a - r) > Math.max(ring.fwhmPx, 1)) }));
+  }
+
+  /** Asks for a ring fitted at this corrected radius (px). */
+  addRingAt(radiusPx: number): void {
+    if (!Number.isFinite(radiusPx) || radiusPx <= 0) return;
+    const r = Math.round(radiusPx * 100) / 100;
+    this.#edit(`ring added at ${r.toFixed(1)} px`, (e) => ({ ...e, addedRadiiPx: [...e.addedRadiiPx, r] }), r);
   }
 
   #onWorker(m: FromWorker): void {
@@ -334,7 +482,25 @@ export class Workspace {
         this.busy = { ...this.busy, stage: STAGE_WORDS[m.stage] ?? m.stage, fraction: (k + m.fraction) / STAGE_ORDER.length };
         return;
       }
+      case 'preview': {
+        this.#centreInFlight = false;
+        if (this.#dragging) {
+          const t = performance.now();
+          this.preview = { centerXPx: m.centerXPx, centerYPx: m.centerYPx, radiusPx: m.radiusPx, mean: m.mean };
+          this.profileUpdates++;
+          if (this.dragStats) this.dragStats = { ...this.dragStats, updates: this.dragStats.updates + 1, workerMs: this.dragStats.workerMs + m.elapsedMs, lastAt: t };
+        }
+        this.#sendCentre();
+        return;
+      }
       case 'image':
+        this.#history = new EditHistory<EditState>({ edits: NO_EDITS, camera: { ...this.cameraText }, calibrationName: this.calibrationName, label: 'opening' });
+        this.historyTick++;
+        this.tool = 'move';
+        this.draftPolygon = [];
+        this.preview = null;
+        this.curves = null;
+        this.addedRings = [];
         this.image = { summary: m.image, data: m.data };
         this.mask = null;
         this.result = null;
@@ -348,14 +514,12 @@ export class Workspace {
         this.sampleIdText = fileStem(this.#pendingSource?.sample?.id ?? m.image.name);
         return;
       case 'result':
-        if (this.#centreInFlight) {
-          this.#centreInFlight = false;
-          if (this.dragStats) this.dragStats = { ...this.dragStats, updates: this.dragStats.updates + 1, workerMs: this.dragStats.workerMs + m.elapsedMs };
-          this.result = m.result;
-          this.#sendCentre();
-          return;
-        }
+        this.#editInFlight = false;
         this.result = m.result;
+        this.curves = m.curves;
+        this.addedRings = m.addedRings;
+        if (!this.#dragging) this.preview = null;
+        this.profileUpdates++;
         this.lastRunMs = m.elapsedMs;
         this.busy = null;
         return;
@@ -391,6 +555,20 @@ export class Workspace {
           return;
         }
         this.#centreInFlight = false;
+        if (this.#editInFlight) {
+          // The step just taken could not be made: it leaves the history, and the analysis shown stays.
+          this.#editInFlight = false;
+          this.preview = null;
+          if (this.#history && m.reason === 'settings' && this.#lastStepPushed) {
+            this.#lastStepPushed = false;
+            this.#history.discardLast();
+            this.historyTick++;
+            this.cameraText = { ...this.#history.present.camera };
+            this.calibrationName = this.#history.present.calibrationName;
+          }
+          this.error = m.message;
+          return;
+        }
         if (m.reason === 'image') {
           this.error = `${m.message}`;
           // The previous image and result stay on screen: nothing is lost.
