@@ -3,8 +3,8 @@
  * The calibration and check flows in Chromium against the real `annula serve` with a
  * temporary lab store: calibrate on samples/gold-standard and save (a second save under
  * the same name is refused), reload and find it, check two QA films (the verdicts
- * samples/README.md states), export the PDF report and the CSV ring table and verify the
- * files. Screenshots at 1280 x 800 and 1920 x 1080, dark and light, go to test/e2e/artifacts/.
+ * samples/README.md states), export the PDF report, the CSV ring table and the PNG of the
+ * pattern with its overlays and verify the files. Screenshots at 1280 x 800 and 1920 x 1080, dark and light, go to test/e2e/artifacts/.
  */
 import { execFileSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
@@ -204,4 +204,51 @@ describe.runIf(chromiumAvailable())('calibration and check flows in Chromium aga
     expect(second).not.toBe(csv);
     await shoot('exported');
   }, TIMEOUT * 2);
+
+  it('exports the PNG of the pattern with its overlays: a real PNG, the size of the image, not blank', async () => {
+    const tif = resolve(root, 'samples/qa-batch/CV-TIN-0414.tif'); // the film the check above left open
+    await page.getByTestId('open-file').filter({ hasText: 'CV-TIN-0414.tif' }).waitFor();
+    const png = await download('export-png');
+    await page.getByTestId('export-notice').filter({ hasText: /overlay/ }).waitFor();
+    const bytes = await readFile(png);
+    // The PNG signature (PNG specification, ISO/IEC 15948, section 5.2), then the IHDR chunk first.
+    expect([...bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+    expect(bytes.readUInt32BE(8)).toBe(13);
+    expect(bytes.subarray(12, 16).toString('latin1')).toBe('IHDR');
+    const ihdr = { width: bytes.readUInt32BE(16), height: bytes.readUInt32BE(20) };
+
+    // The image's size, read from the TIFF by an independent decoder (Debian's PIL), and as the app shows it.
+    const [tifWidth, tifHeight] = execFileSync('/usr/bin/python3', ['-c', 'import sys; from PIL import Image; print(*Image.open(sys.argv[1]).size)', tif], { encoding: 'utf8' }).trim().split(' ').map(Number);
+    expect(ihdr).toEqual({ width: tifWidth, height: tifHeight });
+    await page.getByTestId('open-file').filter({ hasText: `${tifWidth} × ${tifHeight}` }).waitFor();
+
+    // Decoded by PIL: the spread of the grey levels (the pattern) and the share of coloured pixels (the overlays).
+    const stats = JSON.parse(
+      execFileSync(
+        '/usr/bin/python3',
+        [
+          '-c',
+          [
+            'import sys, json',
+            'from PIL import Image, ImageStat',
+            'im = Image.open(sys.argv[1]); im.load(); rgb = im.convert("RGB")',
+            'grey = ImageStat.Stat(rgb.convert("L"))',
+            'coloured = sum(1 for r, g, b in rgb.getdata() if max(r, g, b) - min(r, g, b) > 60)',
+            'print(json.dumps({"width": im.width, "height": im.height, "sd": grey.stddev[0], "levels": len(rgb.convert("L").getcolors(256) or []), "coloured": coloured}))',
+          ].join('\n'),
+          png,
+        ],
+        { encoding: 'utf8' },
+      ),
+    ) as { width: number; height: number; sd: number; levels: number; coloured: number };
+    console.log(`PNG export: ${stats.width} x ${stats.height} (TIFF ${tifWidth} x ${tifHeight}), grey s.d. ${stats.sd.toFixed(1)}, ${stats.levels} grey levels, ${stats.coloured} coloured overlay pixels`);
+    expect({ width: stats.width, height: stats.height }).toEqual(ihdr);
+    expect(stats.sd).toBeGreaterThan(10); // not one flat colour
+    expect(stats.levels).toBeGreaterThan(64); // a grey-scale pattern, not a few flat fills
+    // The fitted rings are drawn in colour: each of the five rings is over a thousand pixels round.
+    const rings = await page.getByTestId('ring-row').count();
+    expect(rings).toBeGreaterThanOrEqual(5);
+    expect(stats.coloured).toBeGreaterThan(rings * 1000);
+    expect(stats.coloured).toBeLessThan(0.5 * stats.width * stats.height); // the overlays do not cover the pattern
+  }, TIMEOUT);
 });
