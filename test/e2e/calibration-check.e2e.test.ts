@@ -17,13 +17,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromiumAvailable, launchChromium } from './support/chromium';
 import { assertRendererBuilt } from './support/renderer-build';
 import { startServe, type ServeProcess } from './support/serve-process';
+import { ARTIFACTS_DIR, shootStates, SIZES } from './support/screenshots';
 
 const root = resolve(import.meta.dirname, '..', '..');
-const artifacts = resolve(import.meta.dirname, 'artifacts');
-const SIZES = [
-  { width: 1280, height: 800 },
-  { width: 1920, height: 1080 },
-];
+const artifacts = ARTIFACTS_DIR;
 const TIMEOUT = 90_000;
 const CALIBRATION = 'TEM-2 gold e2e';
 
@@ -39,26 +36,7 @@ describe.runIf(chromiumAvailable())('calibration and check flows in Chromium aga
     await page.getByTestId('progress').waitFor({ state: 'detached', timeout: TIMEOUT });
   }
 
-  async function pressShortcut(key: string): Promise<void> {
-    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
-    await page.keyboard.press(key);
-  }
-
-  async function shoot(state: string): Promise<void> {
-    for (const theme of ['dark', 'light'] as const) {
-      if ((await page.evaluate(() => document.documentElement.dataset.theme)) !== theme) {
-        await pressShortcut('t');
-        await page.waitForFunction((t) => document.documentElement.dataset.theme === t, theme);
-      }
-      for (const size of SIZES) {
-        await page.setViewportSize(size);
-        await page.waitForTimeout(250);
-        await page.screenshot({ path: resolve(artifacts, `${state}-${size.width}x${size.height}-${theme}.png`) });
-      }
-    }
-    await page.setViewportSize(SIZES[0]!);
-    if ((await page.evaluate(() => document.documentElement.dataset.theme)) !== 'dark') await pressShortcut('t');
-  }
+  const shoot = (state: string): Promise<void> => shootStates(page, state);
 
   async function openFile(path: string): Promise<void> {
     await page.getByTestId('view-answer').click(); // the ring table is in the Result view

@@ -15,13 +15,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromiumAvailable, launchChromium } from './support/chromium';
 import { assertRendererBuilt } from './support/renderer-build';
 import { startServe, type ServeProcess } from './support/serve-process';
+import { ARTIFACTS_DIR, pressShortcut as pressShortcutOn, shootStates, SIZES } from './support/screenshots';
 
 const root = resolve(import.meta.dirname, '..', '..');
-const artifacts = resolve(import.meta.dirname, 'artifacts');
-const SIZES = [
-  { width: 1280, height: 800 },
-  { width: 1920, height: 1080 },
-];
+const artifacts = ARTIFACTS_DIR;
 const ANALYSIS_TIMEOUT_MS = 120_000;
 const run = chromiumAvailable();
 
@@ -54,27 +51,8 @@ describe.runIf(run)('direct manipulation in Chromium against annula serve', () =
     return { x: box.x + x!, y: box.y + y! };
   }
 
-  async function pressShortcut(key: string): Promise<void> {
-    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
-    await page.keyboard.press(key);
-  }
-
-  async function shoot(state: string): Promise<void> {
-    for (const theme of ['dark', 'light'] as const) {
-      if ((await page.evaluate(() => document.documentElement.dataset.theme)) !== theme) {
-        await pressShortcut('t');
-        await page.waitForFunction((t) => document.documentElement.dataset.theme === t, theme);
-      }
-      for (const size of SIZES) {
-        await page.setViewportSize(size);
-        await page.waitForTimeout(250);
-        await page.screenshot({ path: resolve(artifacts, `${state}-${size.width}x${size.height}-${theme}.png`) });
-      }
-    }
-    await page.setViewportSize(SIZES[0]!);
-    if ((await page.evaluate(() => document.documentElement.dataset.theme)) !== 'dark') await pressShortcut('t');
-    await page.waitForTimeout(250);
-  }
+  const shoot = (state: string): Promise<void> => shootStates(page, state);
+  const pressShortcut = (key: string): Promise<void> => pressShortcutOn(page, key);
 
   async function setCamera(testId: string, text: string): Promise<void> {
     const field = page.getByTestId(testId);

@@ -12,13 +12,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromiumAvailable, launchChromium } from './support/chromium';
 import { assertRendererBuilt } from './support/renderer-build';
 import { startServe, type ServeProcess } from './support/serve-process';
+import { ARTIFACTS_DIR, pressShortcut as pressShortcutOn, shootStates, SIZES } from './support/screenshots';
 
 const root = resolve(import.meta.dirname, '..', '..');
-const artifacts = resolve(import.meta.dirname, 'artifacts');
-const SIZES = [
-  { width: 1280, height: 800 },
-  { width: 1920, height: 1080 },
-];
+const artifacts = ARTIFACTS_DIR;
 const ANALYSIS_TIMEOUT_MS = 90_000;
 
 const run = chromiumAvailable();
@@ -63,28 +60,8 @@ describe.runIf(run)('the workspace in Chromium against annula serve', () => {
     return bestText();
   }
 
-  /** Shortcuts act only when no text field has the focus. */
-  async function pressShortcut(key: string): Promise<void> {
-    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
-    await page.keyboard.press(key);
-  }
-
-  async function shoot(state: string): Promise<void> {
-    for (const theme of ['dark', 'light'] as const) {
-      const current = await page.evaluate(() => document.documentElement.dataset.theme);
-      if (current !== theme) {
-        await pressShortcut('t');
-        await page.waitForFunction((t) => document.documentElement.dataset.theme === t, theme);
-      }
-      for (const size of SIZES) {
-        await page.setViewportSize(size);
-        await page.waitForTimeout(250);
-        await page.screenshot({ path: resolve(artifacts, `${state}-${size.width}x${size.height}-${theme}.png`) });
-      }
-    }
-    await page.setViewportSize(SIZES[0]!);
-    if ((await page.evaluate(() => document.documentElement.dataset.theme)) !== 'dark') await pressShortcut('t');
-  }
+  const shoot = (state: string): Promise<void> => shootStates(page, state);
+  const pressShortcut = (key: string): Promise<void> => pressShortcutOn(page, key);
 
   beforeAll(async () => {
     assertRendererBuilt();
