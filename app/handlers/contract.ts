@@ -8,7 +8,7 @@
  * passes both through the structured clone unchanged.
  */
 import type { CalibrationDrift } from '../node/store/calibration-drift';
-import type { CalibrationRecord } from '../node/store/store-records';
+import type { AnalysisSummary, CalibrationRecord, Verdict } from '../node/store/store-records';
 
 /** Why a handler refused or failed; transports map these to HTTP statuses. */
 export type HandlerErrorCode =
@@ -105,7 +105,7 @@ export interface CalibrationHistory {
   calibrations: CalibrationHistoryEntry[];
 }
 
-export type VerdictText = 'pass' | 'fail' | 'inconclusive';
+export type VerdictText = Verdict;
 
 /** A check to record (the store's NewAnalysis, every field as the workspace sends it). */
 export interface CheckRecordInput {
@@ -123,21 +123,8 @@ export interface CheckRecordInput {
   result: unknown;
 }
 
-/** An analysis as the phase history lists it (the store's AnalysisSummary). */
-export interface AnalysisSummaryData {
-  id: number;
-  sampleId: string | null;
-  operator: string | null;
-  created: string;
-  imageSha256: string;
-  imagePath: string | null;
-  calibration: string | null;
-  phase: string | null;
-  aA: number | null;
-  aSigmaA: number | null;
-  verdict: VerdictText | null;
-  tolerance: number | null;
-}
+/** An analysis as the phase history lists it (the store's own summary). */
+export type AnalysisSummaryData = AnalysisSummary;
 
 export interface PhaseHistory {
   storePath: string;
